@@ -1,0 +1,10 @@
+package dev.sluice.config;
+
+/**
+ * @param pairThreshold pairs with |Pearson r| at or above this are reported
+ * @param vifLimit the suggested drop set brings every VIF to at most this
+ * @param drop drop the suggested columns from the treated output
+ * @param maxColumns the analysis is skipped (and reported) above this many numeric columns
+ */
+public record CollinearitySettings(
+    boolean enabled, double pairThreshold, double vifLimit, boolean drop, int maxColumns) {}
