@@ -1,0 +1,93 @@
+package dev.sluice;
+
+import dev.sluice.config.Role;
+import dev.sluice.config.Settings;
+import dev.sluice.plan.OutlierPlan;
+import dev.sluice.plan.Plan;
+import dev.sluice.plan.Planner;
+import dev.sluice.plan.TreatedStats;
+import dev.sluice.profile.Profiler;
+import dev.sluice.profile.TableProfile;
+import dev.sluice.treat.TreatedStatsPass;
+import dev.sluice.treat.TreatedTable;
+import java.util.LinkedHashMap;
+import java.util.List;
+import java.util.Map;
+import java.util.function.Consumer;
+import org.apache.spark.sql.Dataset;
+import org.apache.spark.sql.Row;
+
+/**
+ * The Java API: fit a plan on a table, then apply it. Fitting reads the table twice (the profile,
+ * then the statistics of the treated values); applying is one projection and reads nothing until
+ * the caller writes or counts the result.
+ */
+public final class Sluice {
+  private Sluice() {}
+
+  /**
+   * What fitting found and decided.
+   *
+   * @param seconds wall-clock seconds of each pass, in order
+   */
+  public record Fit(TableProfile profile, Plan plan, TreatedStats stats, Map<String, Double> seconds) {}
+
+  public static Fit fit(Dataset<Row> data, Settings settings, List<String> partitionColumns) {
+    return fit(data, settings, partitionColumns, message -> {});
+  }
+
+  /** Fits a plan; {@code progress} hears one line as each pass starts. */
+  public static Fit fit(
+      Dataset<Row> data, Settings settings, List<String> partitionColumns, Consumer<String> progress) {
+    checkColumns(data, settings);
+    Map<String, Role> roles = Roles.effective(data.schema(), settings, partitionColumns);
+    Map<String, Double> seconds = new LinkedHashMap<>();
+    progress.accept("pass 1 of 3: profiling " + data.columns().length + " columns");
+    long t0 = System.nanoTime();
+    TableProfile profile = Profiler.profile(data, settings, roles);
+    seconds.put("profile", elapsed(t0));
+    Map<String, OutlierPlan> outliers = Planner.outliers(profile, settings);
+    progress.accept("pass 2 of 3: statistics of the treated values (" + profile.rows() + " rows)");
+    long t1 = System.nanoTime();
+    TreatedStats stats = TreatedStatsPass.run(data, profile, outliers, settings);
+    seconds.put("treated-statistics", elapsed(t1));
+    Plan plan = Planner.finish(profile, settings, outliers, stats);
+    TreatedTable.checkNoCollisions(data, plan);
+    return new Fit(profile, plan, stats, seconds);
+  }
+
+  /** The treated rows: the plan applied, quarantined rows left out. */
+  public static Dataset<Row> treat(Dataset<Row> data, Plan plan) {
+    Dataset<Row> kept = TreatedTable.quarantines(plan)
+        ? data.filter(TreatedTable.reason(plan).isNull())
+        : data;
+    return kept.select(TreatedTable.projection(data, plan).toArray(new org.apache.spark.sql.Column[0]));
+  }
+
+  /** The rows held back, with original values and the {@code quarantine_reason} column. */
+  public static Dataset<Row> quarantine(Dataset<Row> data, Plan plan) {
+    return data.withColumn(TreatedTable.REASON_COLUMN, TreatedTable.reason(plan))
+        .filter(org.apache.spark.sql.functions.col(TreatedTable.REASON_COLUMN).isNotNull());
+  }
+
+  static void checkColumns(Dataset<Row> data, Settings settings) {
+    List<String> have = List.of(data.columns());
+    List<String> missing = settings.columns().keySet().stream().filter(c -> !have.contains(c)).toList();
+    if (!missing.isEmpty()) {
+      throw SluiceException.usage("Column(s) " + String.join(", ", missing)
+          + " in config (sluice.columns) not in the table; its columns are: " + abbreviate(have));
+    }
+    Roles.checkTypes(data.schema(), settings);
+  }
+
+  private static String abbreviate(List<String> names) {
+    if (names.size() <= 30) {
+      return String.join(", ", names);
+    }
+    return String.join(", ", names.subList(0, 30)) + " and " + (names.size() - 30) + " more";
+  }
+
+  static double elapsed(long startNanos) {
+    return Math.round((System.nanoTime() - startNanos) / 1e6) / 1000.0;
+  }
+}

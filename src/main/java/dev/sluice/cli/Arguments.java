@@ -1,0 +1,95 @@
+package dev.sluice.cli;
+
+import dev.sluice.SluiceException;
+import java.util.ArrayList;
+import java.util.List;
+import java.util.Optional;
+
+/**
+ * The parsed command line.
+ *
+ * @param command run, survey or help
+ * @param sets the {@code --set KEY=VALUE} overrides, in order (a later one wins)
+ */
+public record Arguments(
+    String command,
+    String input,
+    Optional<String> format,
+    String output,
+    Optional<String> config,
+    List<String> sets) {
+
+  public static final String USAGE = String.join("\n",
+      "Usage:",
+      "  sluice run    --input PATH [--format parquet|csv|orc|json] --output DIR [--config FILE] [--set KEY=VALUE]...",
+      "  sluice survey --input PATH [--format parquet|csv|orc|json] --output DIR [--config FILE] [--set KEY=VALUE]...",
+      "  sluice --help",
+      "",
+      "  run     profile the table, decide the treatment plan, treat it and write treated/,",
+      "          the quality summary, correlations, plan.json and run.json under DIR",
+      "  survey  the same without treated data: summary, correlations, plan.json and run.json",
+      "",
+      "  --input PATH     a file or a directory of partitions (local path or Hadoop filesystem URI)",
+      "  --format F       input format; default from the file extension, else parquet",
+      "  --output DIR     where the outputs go; the input is never modified",
+      "  --config FILE    a HOCON file of settings (see conf/sample.conf and reference.conf)",
+      "  --set KEY=VALUE  override one setting, e.g. --set defaults.outliers.iqr-k=3",
+      "",
+      "Exit codes: 0 success, 1 unexpected failure, 2 bad usage or config, 3 bad input.");
+
+  public static Arguments parse(String[] args) {
+    if (args.length == 0) {
+      throw SluiceException.usage("No command given; expected run or survey (see sluice --help)");
+    }
+    String command = args[0];
+    if (command.equals("--help") || command.equals("-h") || command.equals("help")) {
+      return new Arguments("help", null, Optional.empty(), null, Optional.empty(), List.of());
+    }
+    if (!command.equals("run") && !command.equals("survey")) {
+      throw SluiceException.usage("Unknown command " + command + "; expected run or survey (see sluice --help)");
+    }
+    return options(command, args);
+  }
+
+  private static Arguments options(String command, String[] args) {
+    String input = null;
+    String output = null;
+    Optional<String> format = Optional.empty();
+    Optional<String> config = Optional.empty();
+    List<String> sets = new ArrayList<>();
+    for (int i = 1; i < args.length; i++) {
+      String a = args[i];
+      if (a.equals("--help") || a.equals("-h")) {
+        return new Arguments("help", null, Optional.empty(), null, Optional.empty(), List.of());
+      }
+      String value = valueOf(args, i);
+      i++;
+      switch (a) {
+        case "--input" -> input = value;
+        case "--output" -> output = value;
+        case "--format" -> format = Optional.of(value);
+        case "--config" -> config = Optional.of(value);
+        case "--set" -> sets.add(value);
+        default -> throw SluiceException.usage("Unknown option " + a + " (see sluice --help)");
+      }
+    }
+    if (input == null) {
+      throw SluiceException.usage("Missing --input PATH (see sluice --help)");
+    }
+    if (output == null) {
+      throw SluiceException.usage("Missing --output DIR (see sluice --help)");
+    }
+    return new Arguments(command, input, format, output, config, List.copyOf(sets));
+  }
+
+  private static String valueOf(String[] args, int i) {
+    String a = args[i];
+    if (!a.startsWith("--")) {
+      throw SluiceException.usage("Unexpected argument " + a + " (see sluice --help)");
+    }
+    if (i + 1 >= args.length || args[i + 1].startsWith("--")) {
+      throw SluiceException.usage("Option " + a + " needs a value (see sluice --help)");
+    }
+    return args[i + 1];
+  }
+}

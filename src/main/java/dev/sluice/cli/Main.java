@@ -1,0 +1,76 @@
+package dev.sluice.cli;
+
+import dev.sluice.SluiceException;
+import dev.sluice.config.Settings;
+import dev.sluice.config.SettingsLoader;
+import java.io.PrintStream;
+import java.nio.file.Path;
+import java.util.Map;
+import org.apache.spark.SparkConf;
+import org.apache.spark.sql.SparkSession;
+import org.slf4j.Logger;
+import org.slf4j.LoggerFactory;
+
+/**
+ * The command line. Every failure ends in one line on standard error and an exit code: 0 success,
+ * 1 unexpected failure, 2 bad usage or configuration, 3 bad input. Stack traces go to the log.
+ */
+public final class Main {
+  private static final Logger LOG = LoggerFactory.getLogger(Main.class);
+
+  private Main() {}
+
+  public static void main(String[] argv) {
+    int code = run(argv, System.out, System.err);
+    System.exit(code);
+  }
+
+  /** Runs a command and returns its exit code; never throws. */
+  public static int run(String[] argv, PrintStream out, PrintStream err) {
+    SparkSession spark = null;
+    try {
+      Arguments args = Arguments.parse(argv);
+      if (args.command().equals("help")) {
+        out.println(Arguments.USAGE);
+        return 0;
+      }
+      Settings settings = SettingsLoader.load(args.config().map(Path::of), args.sets());
+      spark = session(settings);
+      Map<String, Object> record = new Job(spark, args, settings, err).execute();
+      out.println("sluice: " + args.command() + " finished; outputs under " + args.output());
+      out.println("sluice: rows " + record.get("rows"));
+      return 0;
+    } catch (SluiceException e) {
+      LOG.debug("sluice failed", e);
+      err.println("sluice: " + oneLine(e.getMessage()));
+      return e.kind().exitCode;
+    } catch (RuntimeException | Error e) {
+      LOG.error("sluice failed unexpectedly", e);
+      err.println("sluice: unexpected failure: " + e.getClass().getSimpleName() + ": "
+          + oneLine(e.getMessage()) + " (details in the log)");
+      return 1;
+    }
+  }
+
+  /**
+   * The session: the one spark-submit configured, or a local one. A master given by spark-submit
+   * (or -Dspark.master) wins over sluice.spark.master.
+   */
+  static SparkSession session(Settings settings) {
+    SparkConf conf = new SparkConf();
+    if (!conf.contains("spark.master")) {
+      conf.setMaster(settings.sparkMaster());
+    }
+    conf.setIfMissing("spark.app.name", "sluice");
+    conf.setIfMissing("spark.ui.showConsoleProgress", "false");
+    settings.sparkConf().forEach(conf::set);
+    return SparkSession.builder().config(conf).getOrCreate();
+  }
+
+  static String oneLine(String message) {
+    if (message == null) {
+      return "(no message)";
+    }
+    return message.replaceAll("\\s*\\R\\s*", " ").trim();
+  }
+}

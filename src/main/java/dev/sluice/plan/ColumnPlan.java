@@ -1,0 +1,32 @@
+package dev.sluice.plan;
+
+/**
+ * Every decision for one column with the numbers it applies, in the order of treatment:
+ * validity bounds, outliers, missing values, scaling.
+ *
+ * @param treated the column's values are rewritten (as DOUBLE for numeric columns)
+ * @param validMin values below are incorrect entries and become missing (null: no bound)
+ * @param dropReason why the column is not in the treated output (null: it is)
+ */
+public record ColumnPlan(
+    String name,
+    String type,
+    String kind,
+    String role,
+    boolean treated,
+    Double validMin,
+    Double validMax,
+    OutlierPlan outliers,
+    MissingPlan missing,
+    ScalingPlan scaling,
+    String dropReason) {
+
+  public boolean kept() {
+    return dropReason == null;
+  }
+
+  public ColumnPlan dropped(String reason) {
+    return new ColumnPlan(
+        name, type, kind, role, treated, validMin, validMax, outliers, missing, scaling, reason);
+  }
+}

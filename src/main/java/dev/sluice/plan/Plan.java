@@ -1,0 +1,28 @@
+package dev.sluice.plan;
+
+import java.util.List;
+import java.util.Optional;
+
+/**
+ * The fitted treatment plan: every per-column decision with its numbers, and the collinearity
+ * findings. Applying a plan never recomputes a statistic.
+ *
+ * @param formatVersion version of this plan's JSON layout
+ * @param rowsFitted rows of the table the plan was fitted on
+ * @param quantileMethod exact-type7 or approx-gk
+ * @param rankError bound on the normalized rank error of the quantiles (0 when exact)
+ */
+public record Plan(
+    int formatVersion,
+    long rowsFitted,
+    String quantileMethod,
+    double rankError,
+    List<ColumnPlan> columns,
+    CollinearityFindings collinearity) {
+
+  public static final int FORMAT_VERSION = 1;
+
+  public Optional<ColumnPlan> column(String name) {
+    return columns.stream().filter(c -> c.name().equals(name)).findFirst();
+  }
+}
