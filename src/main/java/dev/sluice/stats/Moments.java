@@ -4,43 +4,113 @@ package dev.sluice.stats;
  * Count, mean, sum of squared deviations (m2), minimum and maximum of finite values.
  *
  * <p>Empty input has count 0 and NaN for every other figure. Variance and standard deviation use
- * n - 1 and are NaN for fewer than two values.
+ * n - 1 and are NaN for fewer than two values. A single value has m2 = 0 and min = max = mean.
+ * Combining with an empty part returns the other part unchanged, so empty parts cost no accuracy.
  */
 public record Moments(long count, double mean, double m2, double min, double max) {
   public static final Moments EMPTY =
       new Moments(0, Double.NaN, Double.NaN, Double.NaN, Double.NaN);
 
-  /** Builds moments from a count, mean and sample standard deviation (as Spark reports them). */
+  public Moments {
+    if (count < 0) {
+      throw new IllegalArgumentException("Cannot have a negative count " + count);
+    }
+  }
+
+  /**
+   * Builds moments from a count, mean and sample standard deviation (as Spark reports them).
+   * A count of 0 gives {@link #EMPTY}; a count of 1 gives m2 = 0 whatever the standard deviation
+   * (Spark reports NaN or null there); otherwise m2 = stddev^2 (count - 1), NaN if stddev is NaN.
+   */
   public static Moments of(long count, double mean, double stddev, double min, double max) {
-    throw new UnsupportedOperationException("todo");
+    if (count == 0) {
+      return EMPTY;
+    }
+    double m2 = count == 1 ? 0.0 : stddev * stddev * (count - 1);
+    return new Moments(count, mean, m2, min, max);
   }
 
+  /** Sample variance m2 / (n - 1); NaN for fewer than two values. */
   public double variance() {
-    throw new UnsupportedOperationException("todo");
+    return count < 2 ? Double.NaN : m2 / (count - 1);
   }
 
+  /** Sample standard deviation; NaN for fewer than two values. */
   public double stddev() {
-    throw new UnsupportedOperationException("todo");
+    return Math.sqrt(variance());
   }
 
-  /** The moments of this data with {@code copies} more values all equal to {@code value}, exactly. */
+  /**
+   * The moments of this data with {@code copies} more values all equal to {@code value}, exactly
+   * (Chan et al.'s combination with a zero-variance part). Zero copies return this.
+   *
+   * @throws IllegalArgumentException for negative copies or a non-finite value
+   */
   public Moments withPointMass(double value, long copies) {
-    throw new UnsupportedOperationException("todo");
+    if (copies < 0) {
+      throw new IllegalArgumentException("Cannot add " + copies + " copies of a value");
+    }
+    requireFinite(value);
+    return copies == 0 ? this : merge(new Moments(copies, value, 0.0, value, value));
   }
 
   /** Chan et al.'s pairwise combination of two disjoint parts. */
   public Moments merge(Moments other) {
-    throw new UnsupportedOperationException("todo");
+    if (other.count == 0) {
+      return this;
+    }
+    if (count == 0) {
+      return other;
+    }
+    long n = count + other.count;
+    double delta = other.mean - mean;
+    double otherShare = (double) other.count / n;
+    double combinedMean = mean + delta * otherShare;
+    double combinedM2 = m2 + other.m2 + delta * delta * count * otherShare;
+    return new Moments(
+        n, combinedMean, combinedM2, Math.min(min, other.min), Math.max(max, other.max));
   }
 
-  /** Mutable, mergeable accumulator (Welford's update); NaN and infinite values are rejected. */
+  private static void requireFinite(double x) {
+    if (!Double.isFinite(x)) {
+      throw new IllegalArgumentException("Cannot summarise the non-finite value " + x);
+    }
+  }
+
+  /**
+   * Mutable, mergeable accumulator (Welford's update); NaN and infinite values are rejected.
+   * Merge accumulators through {@link Moments#merge} of their results.
+   *
+   * <p>Values are summed relative to the first value added, so a large common offset (NIST's
+   * NumAcc4: 10000000.2 +/- 0.1) costs no digits of the deviations.
+   */
   public static final class Accumulator {
+    private long count;
+    private double shift;
+    private double shiftedMean;
+    private double m2;
+    private double min = Double.POSITIVE_INFINITY;
+    private double max = Double.NEGATIVE_INFINITY;
+
     public void add(double x) {
-      throw new UnsupportedOperationException("todo");
+      requireFinite(x);
+      if (count == 0) {
+        shift = x;
+      }
+      count++;
+      double y = x - shift;
+      double delta = y - shiftedMean;
+      shiftedMean += delta / count;
+      m2 += delta * (y - shiftedMean);
+      min = Math.min(min, x);
+      max = Math.max(max, x);
     }
 
     public Moments result() {
-      throw new UnsupportedOperationException("todo");
+      if (count == 0) {
+        return EMPTY;
+      }
+      return new Moments(count, shift + shiftedMean, m2, min, max);
     }
   }
 }

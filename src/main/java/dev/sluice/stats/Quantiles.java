@@ -1,10 +1,17 @@
 package dev.sluice.stats;
 
+import java.util.Arrays;
+
 /**
  * Sample quantile definitions of Hyndman and Fan (1996), computed on sorted arrays.
  *
  * <p>Type 7 (R's and numpy's default) is the job's definition for exact quantiles; type 6 is
  * provided because the NIST e-Handbook uses it in its worked examples.
+ *
+ * <p>Edge cases: an empty array or a probability outside [0, 1] (NaN included) is rejected; a
+ * single value is every quantile of itself; ties need no special care. The sorted arrays are not
+ * checked for order or finiteness (that would cost a pass per call); between -Infinity and
+ * +Infinity the interpolation yields NaN, between equal neighbours it returns the neighbour.
  */
 public final class Quantiles {
   private Quantiles() {}
@@ -17,16 +24,60 @@ public final class Quantiles {
    * @throws IllegalArgumentException for an empty array or p outside [0, 1]
    */
   public static double type7(double[] sorted, double p) {
-    throw new UnsupportedOperationException("todo");
+    check(sorted, p);
+    return interpolate(sorted, (sorted.length - 1) * p);
   }
 
   /** Type 6: h = (n + 1) p, clamped to the first and last order statistic. Same contract as type 7. */
   public static double type6(double[] sorted, double p) {
-    throw new UnsupportedOperationException("todo");
+    check(sorted, p);
+    double h = (sorted.length + 1) * p;
+    double clamped = Math.min(Math.max(h, 1.0), sorted.length);
+    return interpolate(sorted, clamped - 1.0);
   }
 
-  /** Sorts a copy of {@code values} (NaN rejected) and returns the type 7 quantile at each p. */
+  /**
+   * Sorts a copy of {@code values} (NaN rejected) and returns the type 7 quantile at each p.
+   *
+   * @throws IllegalArgumentException for empty or NaN-holding values, or a p outside [0, 1]
+   */
   public static double[] type7Of(double[] values, double... ps) {
-    throw new UnsupportedOperationException("todo");
+    double[] sorted = values.clone();
+    for (double v : sorted) {
+      if (Double.isNaN(v)) {
+        throw new IllegalArgumentException("Cannot take quantiles of NaN values");
+      }
+    }
+    Arrays.sort(sorted);
+    double[] result = new double[ps.length];
+    for (int i = 0; i < ps.length; i++) {
+      result[i] = type7(sorted, ps[i]);
+    }
+    return result;
+  }
+
+  /** Linear interpolation at the zero-based fractional index h in [0, n - 1]. */
+  private static double interpolate(double[] sorted, double h) {
+    int lo = (int) Math.floor(h);
+    if (lo >= sorted.length - 1) {
+      return sorted[sorted.length - 1];
+    }
+    double fraction = h - lo;
+    double a = sorted[lo];
+    double b = sorted[lo + 1];
+    // Skipping the product keeps order statistics exact and equal infinite neighbours finite-safe.
+    if (fraction == 0.0 || a == b) {
+      return a;
+    }
+    return a + fraction * (b - a);
+  }
+
+  private static void check(double[] sorted, double p) {
+    if (sorted.length == 0) {
+      throw new IllegalArgumentException("Cannot take a quantile of no values");
+    }
+    if (!(p >= 0.0 && p <= 1.0)) {
+      throw new IllegalArgumentException("Cannot take the quantile at p = " + p + ": p must be in [0, 1]");
+    }
   }
 }
