@@ -49,18 +49,26 @@ final class ConfigTree {
   }
 
   /**
-   * The plain text of a value: a string as it is, anything else in concise HOCON (numbers keep the
-   * text they were written with, so {@code 0.10} stays {@code 0.10}).
+   * The plain text of a value: a string as it is, a number or boolean as it was written ({@code
+   * 0.10} stays {@code 0.10}, {@code 3.0} stays {@code 3.0}), anything else in concise HOCON.
    */
   static String plain(ConfigValue value) {
-    if (value.valueType() == ConfigValueType.STRING) {
+    ConfigValueType type = value.valueType();
+    if (type == ConfigValueType.NUMBER || type == ConfigValueType.BOOLEAN) {
+      // render() would print the parsed number; getString keeps the text as written.
+      return value.atKey("v").getString("v");
+    }
+    if (type == ConfigValueType.STRING) {
       return (String) value.unwrapped();
     }
     return render(value);
   }
 
-  /** The value as written in an error message: strings quoted, so an empty string is visible. */
+  /** The value as shown in an error message: strings quoted, so an empty string is visible. */
   static String render(ConfigValue value) {
+    if (value.valueType() == ConfigValueType.NUMBER || value.valueType() == ConfigValueType.BOOLEAN) {
+      return plain(value);
+    }
     return value.render(ConfigRenderOptions.concise());
   }
 
