@@ -2,6 +2,7 @@ package dev.sluice.config;
 
 import com.typesafe.config.ConfigObject;
 import com.typesafe.config.ConfigRenderOptions;
+import com.typesafe.config.ConfigUtil;
 import com.typesafe.config.ConfigValue;
 import com.typesafe.config.ConfigValueType;
 import java.util.ArrayList;
@@ -70,6 +71,14 @@ final class ConfigTree {
       return plain(value);
     }
     return value.render(ConfigRenderOptions.concise());
+  }
+
+  /**
+   * A column name as shown in a message: as it is when it is one word of letters, digits and
+   * underscores, else quoted, so that "gross weight" does not read as two words.
+   */
+  static String shownColumn(String name) {
+    return name.matches("[\\p{L}\\p{N}_]+") ? name : ConfigUtil.quoteString(name);
   }
 
   /** True for strings, numbers and booleans. */

@@ -94,7 +94,7 @@ final class KeyCheck {
       Function<List<String>, SluiceException> unknown =
           full -> {
             List<String> own = full.subList(COLUMN_DEPTH, full.size());
-            String shown = "Column " + name + " in config has unknown setting ";
+            String shown = "Column " + ConfigTree.shownColumn(name) + " in config has unknown setting ";
             return unknownSetting(shown + ConfigUtil.joinPath(own), own, knownColumnKeys);
           };
       walk(path, block, defaults, unknown);

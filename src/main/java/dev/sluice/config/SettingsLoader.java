@@ -73,7 +73,8 @@ public final class SettingsLoader {
 
   /** Fails, naming every configured column the table lacks and listing the table's columns. */
   public static void requireColumnsExist(Settings settings, Collection<String> tableColumns) {
-    List<String> missing = unknownColumns(settings, tableColumns);
+    List<String> missing =
+        unknownColumns(settings, tableColumns).stream().map(ConfigTree::shownColumn).toList();
     if (missing.isEmpty()) {
       return;
     }
@@ -87,7 +88,11 @@ public final class SettingsLoader {
 
   /** The table's columns in their order, cut after {@link #LISTED_COLUMNS} with a count. */
   private static String listed(Collection<String> tableColumns) {
-    String shown = tableColumns.stream().limit(LISTED_COLUMNS).collect(Collectors.joining(", "));
+    String shown =
+        tableColumns.stream()
+            .limit(LISTED_COLUMNS)
+            .map(ConfigTree::shownColumn)
+            .collect(Collectors.joining(", "));
     int rest = tableColumns.size() - LISTED_COLUMNS;
     return rest > 0 ? shown + " and " + rest + " more" : shown;
   }

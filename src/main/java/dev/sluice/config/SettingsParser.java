@@ -126,7 +126,7 @@ final class SettingsParser {
     }
     if (!set.isEmpty()) {
       throw SluiceException.usage(
-          "Column " + column.name() + " has role " + SettingsLoader.configName(column.role())
+          "Column " + ConfigTree.shownColumn(column.name()) + " has role " + SettingsLoader.configName(column.role())
               + ", which is never treated; remove its " + inWords(set) + " settings");
     }
   }
