@@ -16,9 +16,9 @@ final class ConfigTree {
   private ConfigTree() {}
 
   /**
-   * The terminal values below {@code object}, keyed by {@code join} of their path, sorted. An
-   * empty object counts as terminal so that blocks such as {@code columns { }} are not lost.
-   * Nulls are kept, unlike {@code Config.entrySet()}, because null is a real value here.
+   * The terminal values below {@code object}, keyed by {@code join} of their path, sorted. An empty
+   * object counts as terminal so that blocks such as {@code columns { }} are not lost. Nulls are
+   * kept, unlike {@code Config.entrySet()}, because null is a real value here.
    */
   static Map<String, ConfigValue> leaves(
       ConfigObject object, List<String> prefix, Function<List<String>, String> join) {
@@ -67,7 +67,8 @@ final class ConfigTree {
 
   /** The value as shown in an error message: strings quoted, so an empty string is visible. */
   static String render(ConfigValue value) {
-    if (value.valueType() == ConfigValueType.NUMBER || value.valueType() == ConfigValueType.BOOLEAN) {
+    if (value.valueType() == ConfigValueType.NUMBER
+        || value.valueType() == ConfigValueType.BOOLEAN) {
       return plain(value);
     }
     return value.render(ConfigRenderOptions.concise());

@@ -14,12 +14,13 @@ import java.util.TreeSet;
 import java.util.function.Function;
 
 /**
- * Rejects keys that reference.conf does not define, so that a misspelt key fails the run instead
- * of silently leaving the default in place.
+ * Rejects keys that reference.conf does not define, so that a misspelt key fails the run instead of
+ * silently leaving the default in place.
  */
 final class KeyCheck {
   private static final List<String> SPARK_CONF = List.of("sluice", "spark", "conf");
   private static final List<String> COLUMNS = List.of("sluice", "columns");
+
   /** Column blocks start after sluice.columns.NAME. */
   private static final int COLUMN_DEPTH = 3;
 
@@ -50,7 +51,10 @@ final class KeyCheck {
       if (!key.equals("sluice")) {
         List<String> leaf = firstLeaf(List.of(key), file.root().get(key));
         throw SluiceException.usage(
-            "Unknown setting " + ConfigUtil.joinPath(leaf) + " in " + path
+            "Unknown setting "
+                + ConfigUtil.joinPath(leaf)
+                + " in "
+                + path
                 + " (every setting goes under sluice)");
       }
     }
@@ -94,7 +98,8 @@ final class KeyCheck {
       Function<List<String>, SluiceException> unknown =
           full -> {
             List<String> own = full.subList(COLUMN_DEPTH, full.size());
-            String shown = "Column " + ConfigTree.shownColumn(name) + " in config has unknown setting ";
+            String shown =
+                "Column " + ConfigTree.shownColumn(name) + " in config has unknown setting ";
             return unknownSetting(shown + ConfigUtil.joinPath(own), own, knownColumnKeys);
           };
       walk(path, block, defaults, unknown);
@@ -103,8 +108,12 @@ final class KeyCheck {
 
   private static SluiceException notAnObject(List<String> path, ConfigValue actual, String what) {
     return SluiceException.usage(
-        "Cannot set " + ConfigUtil.joinPath(path) + " to " + ConfigTree.render(actual)
-            + ": expected " + what);
+        "Cannot set "
+            + ConfigUtil.joinPath(path)
+            + " to "
+            + ConfigTree.render(actual)
+            + ": expected "
+            + what);
   }
 
   /** Descends into an unknown block so that the message names a whole key. */
@@ -129,8 +138,8 @@ final class KeyCheck {
   }
 
   /**
-   * " (did you mean K?)" for the known key whose last part is closest to the unknown one's (at
-   * most two edits), ties broken by the whole key; empty when nothing is close.
+   * " (did you mean K?)" for the known key whose last part is closest to the unknown one's (at most
+   * two edits), ties broken by the whole key; empty when nothing is close.
    */
   static String suggestion(List<String> path, List<String> known) {
     String last = path.get(path.size() - 1);

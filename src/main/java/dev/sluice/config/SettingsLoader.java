@@ -118,7 +118,9 @@ public final class SettingsLoader {
     return ConfigTree.leaves(config.getObject("sluice"), List.of("sluice"), ConfigUtil::joinPath);
   }
 
-  /** How an enum constant is written in config: lower case, '-' for '_' (SET_MISSING: set-missing). */
+  /**
+   * How an enum constant is written in config: lower case, '-' for '_' (SET_MISSING: set-missing).
+   */
   public static String configName(Enum<?> constant) {
     return constant.name().toLowerCase(Locale.ROOT).replace('_', '-');
   }
@@ -147,7 +149,9 @@ public final class SettingsLoader {
     }
     Config file;
     try {
-      file = ConfigFactory.parseFile(path.toFile(), ConfigParseOptions.defaults().setAllowMissing(false));
+      file =
+          ConfigFactory.parseFile(
+              path.toFile(), ConfigParseOptions.defaults().setAllowMissing(false));
     } catch (ConfigException e) {
       throw unreadable(e, "config file " + path);
     }
@@ -163,7 +167,9 @@ public final class SettingsLoader {
     }
   }
 
-  /** "Cannot read config file F at line N: REASON", the library's location prefix moved in front. */
+  /**
+   * "Cannot read config file F at line N: REASON", the library's location prefix moved in front.
+   */
   private static SluiceException unreadable(ConfigException e, String source) {
     ConfigOrigin origin = e.origin();
     String where = source;
@@ -180,6 +186,7 @@ public final class SettingsLoader {
         reason = reason.substring(prefix.length());
       }
     }
-    return SluiceException.usage("Cannot read " + where + ": " + reason.replaceAll("\\s+", " ").strip());
+    return SluiceException.usage(
+        "Cannot read " + where + ": " + reason.replaceAll("\\s+", " ").strip());
   }
 }

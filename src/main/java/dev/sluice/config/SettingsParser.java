@@ -28,7 +28,9 @@ final class SettingsParser {
 
   private SettingsParser() {}
 
-  /** @param sluice the tree under {@code sluice}, reference.conf already merged in */
+  /**
+   * @param sluice the tree under {@code sluice}, reference.conf already merged in
+   */
   static Settings parse(Config sluice) {
     ValueReader root = new ValueReader(sluice, sluice, "sluice");
     Config defaultsConfig = sluice.getConfig("defaults");
@@ -46,13 +48,16 @@ final class SettingsParser {
 
   /** Spark keys may be written nested or quoted; both give the dotted key Spark expects. */
   private static Map<String, String> sparkConf(ConfigObject conf) {
-    Map<String, ConfigValue> leaves = ConfigTree.leaves(conf, List.of(), parts -> String.join(".", parts));
+    Map<String, ConfigValue> leaves =
+        ConfigTree.leaves(conf, List.of(), parts -> String.join(".", parts));
     Map<String, String> out = new TreeMap<>();
     for (Map.Entry<String, ConfigValue> entry : leaves.entrySet()) {
       if (!ConfigTree.isScalar(entry.getValue())) {
         throw SluiceException.usage(
-            "Cannot set " + ConfigUtil.joinPath("sluice", "spark", "conf", entry.getKey())
-                + " to " + ConfigTree.render(entry.getValue())
+            "Cannot set "
+                + ConfigUtil.joinPath("sluice", "spark", "conf", entry.getKey())
+                + " to "
+                + ConfigTree.render(entry.getValue())
                 + ": expected a string, a number or a boolean");
       }
       out.put(entry.getKey(), ConfigTree.plain(entry.getValue()));
@@ -79,12 +84,20 @@ final class SettingsParser {
 
   private static QuantileSettings quantiles(ValueReader r) {
     long exactMaxCount =
-        r.whole("quantiles.exact-max-count", 0, Long.MAX_VALUE, "expected a whole number of at least 0");
+        r.whole(
+            "quantiles.exact-max-count",
+            0,
+            Long.MAX_VALUE,
+            "expected a whole number of at least 0");
     double relativeError =
         r.number(
-            "quantiles.relative-error", x -> x > 0 && x < 0.5, "expected a number above 0 and below 0.5");
+            "quantiles.relative-error",
+            x -> x > 0 && x < 0.5,
+            "expected a number above 0 and below 0.5");
     int gridSize =
-        (int) r.whole("quantiles.rank-grid-size", 2, 100_000, "expected a whole number from 2 to 100000");
+        (int)
+            r.whole(
+                "quantiles.rank-grid-size", 2, 100_000, "expected a whole number from 2 to 100000");
     return new QuantileSettings(exactMaxCount, relativeError, gridSize);
   }
 
@@ -92,11 +105,19 @@ final class SettingsParser {
     boolean enabled = r.flag("collinearity.enabled");
     double pairThreshold =
         r.number(
-            "collinearity.pair-threshold", x -> x > 0 && x <= 1, "expected a number above 0 and at most 1");
-    double vifLimit = r.number("collinearity.vif-limit", x -> x >= 1, "expected a number of at least 1");
+            "collinearity.pair-threshold",
+            x -> x > 0 && x <= 1,
+            "expected a number above 0 and at most 1");
+    double vifLimit =
+        r.number("collinearity.vif-limit", x -> x >= 1, "expected a number of at least 1");
     boolean drop = r.flag("collinearity.drop");
     int maxColumns =
-        (int) r.whole("collinearity.max-columns", 2, Integer.MAX_VALUE, "expected a whole number of at least 2");
+        (int)
+            r.whole(
+                "collinearity.max-columns",
+                2,
+                Integer.MAX_VALUE,
+                "expected a whole number of at least 2");
     return new CollinearitySettings(enabled, pairThreshold, vifLimit, drop, maxColumns);
   }
 
@@ -106,7 +127,8 @@ final class SettingsParser {
     for (String name : new TreeSet<>(columns.keySet())) {
       Config own = ((ConfigObject) columns.get(name)).toConfig();
       String prefix = ConfigUtil.joinPath("sluice", "columns", name);
-      ColumnSettings column = column(name, new ValueReader(own.withFallback(defaults), own, prefix));
+      ColumnSettings column =
+          column(name, new ValueReader(own.withFallback(defaults), own, prefix));
       requireTreatable(column, own);
       out.put(name, column);
     }
@@ -126,8 +148,13 @@ final class SettingsParser {
     }
     if (!set.isEmpty()) {
       throw SluiceException.usage(
-          "Column " + ConfigTree.shownColumn(column.name()) + " has role " + SettingsLoader.configName(column.role())
-              + ", which is never treated; remove its " + inWords(set) + " settings");
+          "Column "
+              + ConfigTree.shownColumn(column.name())
+              + " has role "
+              + SettingsLoader.configName(column.role())
+              + ", which is never treated; remove its "
+              + inWords(set)
+              + " settings");
     }
   }
 

@@ -12,7 +12,9 @@ import java.util.stream.Collectors;
 import java.util.stream.IntStream;
 import org.junit.jupiter.api.Test;
 
-/** Per-column blocks: names, deep merge over the defaults, contradictions, presence in the table. */
+/**
+ * Per-column blocks: names, deep merge over the defaults, contradictions, presence in the table.
+ */
 class ColumnSettingsTest {
 
   @Test
@@ -68,7 +70,8 @@ class ColumnSettingsTest {
   void columnMustBeABlock() {
     rejection("sluice.columns.air_temp_c = flag")
         .isEqualTo(
-            "Cannot set sluice.columns.air_temp_c to \"flag\": expected a block of column settings");
+            "Cannot set sluice.columns.air_temp_c to \"flag\": expected a block of column"
+                + " settings");
   }
 
   @Test
@@ -112,7 +115,8 @@ class ColumnSettingsTest {
 
   @Test
   void unknownColumnsAreTheConfiguredOnesTheTableLacks() {
-    Settings s = parse("sluice.columns { b { role = keep }, a { role = keep }, c { role = keep } }");
+    Settings s =
+        parse("sluice.columns { b { role = keep }, a { role = keep }, c { role = keep } }");
     assertThat(SettingsLoader.unknownColumns(s, List.of("c", "x"))).containsExactly("a", "b");
     assertThat(SettingsLoader.unknownColumns(s, List.of("a", "b", "c"))).isEmpty();
   }
@@ -120,7 +124,9 @@ class ColumnSettingsTest {
   @Test
   void requireColumnsExistNamesTheMissingColumnAndListsTheTable() {
     Settings s = parse("sluice.columns.air_tmp_c.valid-min = -40");
-    failure(() -> SettingsLoader.requireColumnsExist(s, List.of("pallet_id", "air_temp_c", "depot")))
+    failure(
+            () ->
+                SettingsLoader.requireColumnsExist(s, List.of("pallet_id", "air_temp_c", "depot")))
         .isEqualTo(
             "Column air_tmp_c in config (sluice.columns) is not in the table;"
                 + " its columns are: pallet_id, air_temp_c, depot");
@@ -143,7 +149,9 @@ class ColumnSettingsTest {
     failure(() -> SettingsLoader.requireColumnsExist(s, table))
         .isEqualTo(
             "Column missing_one in config (sluice.columns) is not in the table;"
-                + " its columns are: " + first20 + " and 5 more");
+                + " its columns are: "
+                + first20
+                + " and 5 more");
   }
 
   @Test

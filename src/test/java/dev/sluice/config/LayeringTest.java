@@ -11,6 +11,7 @@ import java.nio.file.Files;
 import java.nio.file.Path;
 import java.util.List;
 import java.util.Optional;
+import org.assertj.core.api.AbstractStringAssert;
 import org.junit.jupiter.api.Test;
 import org.junit.jupiter.api.io.TempDir;
 
@@ -27,7 +28,8 @@ class LayeringTest {
   @Test
   void overrideBeatsFileBeatsReference() throws IOException {
     Path conf = file("sluice.defaults.outliers { iqr-k = 2.0, z-limit = 2.5 }");
-    Settings s = SettingsLoader.load(Optional.of(conf), List.of("sluice.defaults.outliers.iqr-k=2.2"));
+    Settings s =
+        SettingsLoader.load(Optional.of(conf), List.of("sluice.defaults.outliers.iqr-k=2.2"));
     assertThat(s.defaults().outliers().iqrK()).isEqualTo(2.2); // override over file
     assertThat(s.defaults().outliers().zLimit()).isEqualTo(2.5); // file over reference
     assertThat(s.defaults().outliers().madLimit()).isEqualTo(3.5); // reference
@@ -89,40 +91,44 @@ class LayeringTest {
   void overrideWithoutEqualsIsRejected() {
     failure(() -> withOverrides("defaults.scaling"))
         .isEqualTo("Cannot read --set defaults.scaling: expected KEY=VALUE");
-    failure(() -> withOverrides("=robust")).isEqualTo("Cannot read --set =robust: expected KEY=VALUE");
+    failure(() -> withOverrides("=robust"))
+        .isEqualTo("Cannot read --set =robust: expected KEY=VALUE");
   }
 
   @Test
   void overrideWithABadKeyIsRejected() {
     failure(() -> withOverrides("defaults..scaling=robust"))
-        .isEqualTo("Cannot read --set defaults..scaling=robust: defaults..scaling is not a valid setting key");
+        .isEqualTo(
+            "Cannot read --set defaults..scaling=robust: defaults..scaling is not a valid setting"
+                + " key");
   }
 
   @Test
   void overrideOfAnUnknownKeyIsRejected() {
     failure(() -> withOverrides("defaults.scalling=robust"))
-        .isEqualTo("Unknown setting sluice.defaults.scalling (did you mean sluice.defaults.scaling?)");
+        .isEqualTo(
+            "Unknown setting sluice.defaults.scalling (did you mean sluice.defaults.scaling?)");
   }
 
   @Test
   void missingFileIsNamed() {
     Path absent = dir.resolve("absent.conf");
-    failure(() -> SettingsLoader.load(Optional.of(absent), List.of()))
-        .isEqualTo("Cannot read config file " + absent + ": no such file");
+    loadingFails(absent).isEqualTo("Cannot read config file " + absent + ": no such file");
   }
 
   @Test
   void directoryAsFileIsNamed() {
-    failure(() -> SettingsLoader.load(Optional.of(dir), List.of()))
-        .isEqualTo("Cannot read config file " + dir + ": it is a directory");
+    loadingFails(dir).isEqualTo("Cannot read config file " + dir + ": it is a directory");
   }
 
   @Test
   void syntaxErrorNamesFileAndLine() throws IOException {
     Path conf = file("sluice {\n  defaults {\n    role = keep\n    scaling = [robust\n  }\n}\n");
-    failure(() -> SettingsLoader.load(Optional.of(conf), List.of()))
+    loadingFails(conf)
         .isEqualTo(
-            "Cannot read config file " + conf + " at line 5: List should have had new element"
+            "Cannot read config file "
+                + conf
+                + " at line 5: List should have had new element"
                 + " after a comma, instead had token: '}' (if you want the comma or '}' to be part"
                 + " of a string value, then double-quote it)");
   }
@@ -130,22 +136,25 @@ class LayeringTest {
   @Test
   void fileWithoutTheSluiceWrapperIsRejected() throws IOException {
     Path conf = file("defaults { role = keep }");
-    failure(() -> SettingsLoader.load(Optional.of(conf), List.of()))
-        .isEqualTo("Unknown setting defaults.role in " + conf + " (every setting goes under sluice)");
+    loadingFails(conf)
+        .isEqualTo(
+            "Unknown setting defaults.role in " + conf + " (every setting goes under sluice)");
   }
 
   @Test
   void unresolvedSubstitutionNamesFileAndLine() throws IOException {
     Path conf = file("sluice {\n  defaults.outliers.iqr-k = ${no-such-value}\n}\n");
-    failure(() -> SettingsLoader.load(Optional.of(conf), List.of()))
+    loadingFails(conf)
         .isEqualTo(
-            "Cannot read config file " + conf
+            "Cannot read config file "
+                + conf
                 + " at line 2: Could not resolve substitution to a value: ${no-such-value}");
   }
 
   @Test
   void substitutionWithinTheSettingsWorks() throws IOException {
-    Path conf = file("sluice.defaults.outliers { iqr-k = 2, outer-k = ${sluice.defaults.outliers.iqr-k} }");
+    Path conf =
+        file("sluice.defaults.outliers { iqr-k = 2, outer-k = ${sluice.defaults.outliers.iqr-k} }");
     assertThat(SettingsLoader.load(Optional.of(conf), List.of()).defaults().outliers().outerK())
         .isEqualTo(2.0);
   }
@@ -169,10 +178,16 @@ class LayeringTest {
   @Test
   void effectiveConfigHoldsOnlyTheSluiceTree() throws IOException {
     Path conf = file("sluice.defaults.role = keep");
-    var effective = SettingsLoader.effectiveConfig(Optional.of(conf), List.of("defaults.scaling=robust"));
+    var effective =
+        SettingsLoader.effectiveConfig(Optional.of(conf), List.of("defaults.scaling=robust"));
     assertThat(effective.root().keySet()).containsExactly("sluice");
     assertThat(effective.getString("sluice.defaults.role")).isEqualTo("keep");
     assertThat(effective.getString("sluice.defaults.scaling")).isEqualTo("robust");
+  }
+
+  /** Asserts that loading {@code conf} alone fails; returns an assertion on the message. */
+  private static AbstractStringAssert<?> loadingFails(Path conf) {
+    return failure(() -> SettingsLoader.load(Optional.of(conf), List.of()));
   }
 
   private static ColumnSettings withName(ColumnSettings c, String name) {

@@ -39,7 +39,9 @@ class ReferenceDefaultsTest {
   void referenceHoldsExactlyTheDocumentedKeys() {
     Map<String, ?> leaves =
         ConfigTree.leaves(
-            SettingsLoader.reference().getObject("sluice"), List.of("sluice"), ConfigUtil::joinPath);
+            SettingsLoader.reference().getObject("sluice"),
+            List.of("sluice"),
+            ConfigUtil::joinPath);
     assertThat(leaves.keySet())
         .containsExactly(
             "sluice.collinearity.drop",

@@ -15,7 +15,9 @@ class ValidationTest {
   @Test
   void unknownKeySuggestsTheClosestKnownKey() {
     rejection("sluice.outliers.iqr-kk = 2")
-        .isEqualTo("Unknown setting sluice.outliers.iqr-kk (did you mean sluice.defaults.outliers.iqr-k?)");
+        .isEqualTo(
+            "Unknown setting sluice.outliers.iqr-kk (did you mean"
+                + " sluice.defaults.outliers.iqr-k?)");
   }
 
   @Test
@@ -35,7 +37,8 @@ class ValidationTest {
   @Test
   void unknownBlockNamesItsFirstKey() {
     rejection("sluice.colums { air_temp_c { role = keep } }")
-        .isEqualTo("Unknown setting sluice.colums.air_temp_c.role (did you mean sluice.defaults.role?)");
+        .isEqualTo(
+            "Unknown setting sluice.colums.air_temp_c.role (did you mean sluice.defaults.role?)");
   }
 
   @Test
@@ -169,7 +172,8 @@ class ValidationTest {
   @Test
   void notFiniteNumber() {
     rejection("sluice.defaults.valid-max = \"Infinity\"")
-        .isEqualTo("Cannot set sluice.defaults.valid-max to \"Infinity\": expected a finite number");
+        .isEqualTo(
+            "Cannot set sluice.defaults.valid-max to \"Infinity\": expected a finite number");
   }
 
   @Test
@@ -190,7 +194,8 @@ class ValidationTest {
   void validMinAboveValidMaxInDefaults() {
     rejection("sluice.defaults { valid-min = 50, valid-max = 10 }")
         .isEqualTo(
-            "Cannot set sluice.defaults.valid-max to 10: expected at least sluice.defaults.valid-min (50)");
+            "Cannot set sluice.defaults.valid-max to 10: expected at least"
+                + " sluice.defaults.valid-min (50)");
   }
 
   @Test
@@ -223,11 +228,17 @@ class ValidationTest {
 
   @Test
   void constantIsKeptAsText() {
-    assertThat(parse("sluice.defaults.missing { strategy = constant, constant = 0.0 }")
-            .defaults().missing().constant())
+    assertThat(
+            parse("sluice.defaults.missing { strategy = constant, constant = 0.0 }")
+                .defaults()
+                .missing()
+                .constant())
         .isEqualTo(Optional.of("0.0"));
-    assertThat(parse("sluice.defaults.missing { strategy = constant, constant = unknown }")
-            .defaults().missing().constant())
+    assertThat(
+            parse("sluice.defaults.missing { strategy = constant, constant = unknown }")
+                .defaults()
+                .missing()
+                .constant())
         .isEqualTo(Optional.of("unknown"));
   }
 
@@ -235,26 +246,30 @@ class ValidationTest {
   void constantMustBeScalar() {
     rejection("sluice.defaults.missing.constant = [1]")
         .isEqualTo(
-            "Cannot set sluice.defaults.missing.constant to [1]: expected a string, a number or null");
+            "Cannot set sluice.defaults.missing.constant to [1]: expected a string, a number or"
+                + " null");
   }
 
   @Test
   void inputFormatMustBeKnown() {
     rejection("sluice.input.format = xlsx")
         .isEqualTo(
-            "Cannot set sluice.input.format to \"xlsx\": expected one of parquet, csv, orc, json or \"\"");
+            "Cannot set sluice.input.format to \"xlsx\": expected one of parquet, csv, orc, json or"
+                + " \"\"");
     assertThat(parse("sluice.input.format = csv").input().format()).contains("csv");
   }
 
   @Test
   void csvDelimiterMustNotBeEmpty() {
     rejection("sluice.input.csv.delimiter = \"\"")
-        .isEqualTo("Cannot set sluice.input.csv.delimiter to \"\": expected at least one character");
+        .isEqualTo(
+            "Cannot set sluice.input.csv.delimiter to \"\": expected at least one character");
   }
 
   @Test
   void csvSchemaIsKept() {
-    assertThat(parse("sluice.input.csv { delimiter = \";\", schema = \"a INT, b DOUBLE\" }").input())
+    assertThat(
+            parse("sluice.input.csv { delimiter = \";\", schema = \"a INT, b DOUBLE\" }").input())
         .isEqualTo(new InputSettings(Optional.empty(), ";", Optional.of("a INT, b DOUBLE")));
   }
 
