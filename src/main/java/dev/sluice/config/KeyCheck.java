@@ -7,6 +7,7 @@ import com.typesafe.config.ConfigValue;
 import dev.sluice.SluiceException;
 import java.nio.file.Path;
 import java.util.ArrayList;
+import java.util.Collection;
 import java.util.Comparator;
 import java.util.List;
 import java.util.Optional;
@@ -36,8 +37,10 @@ final class KeyCheck {
   static void check(Config merged, Config reference) {
     ConfigObject referenceRoot = reference.getObject("sluice");
     List<String> known = knownKeys(referenceRoot, List.of("sluice"));
-    Function<List<String>, SluiceException> unknown =
-        path -> unknownSetting("Unknown setting " + ConfigUtil.joinPath(path), path, known);
+    Function<Unknown, SluiceException> unknown =
+        u ->
+            u.report(
+                "Unknown setting " + ConfigUtil.joinPath(u.leaf()), u.leaf(), u.fixed(), known);
     new KeyCheck(referenceRoot)
         .walk(List.of("sluice"), merged.root().get("sluice"), referenceRoot, unknown);
   }
@@ -64,7 +67,7 @@ final class KeyCheck {
       List<String> path,
       ConfigValue actual,
       ConfigObject reference,
-      Function<List<String>, SluiceException> unknown) {
+      Function<Unknown, SluiceException> unknown) {
     if (!(actual instanceof ConfigObject object)) {
       throw notAnObject(path, actual, "an object");
     }
@@ -79,7 +82,10 @@ final class KeyCheck {
       List<String> child = ConfigTree.append(path, key);
       ConfigValue expected = reference.get(key);
       if (expected == null) {
-        throw unknown.apply(firstLeaf(child, object.get(key)));
+        List<String> leaf = firstLeaf(child, object.get(key));
+        Optional<List<String>> fixed =
+            closest(key, reference.keySet()).map(near -> replaced(leaf, path.size(), near));
+        throw unknown.apply(new Unknown(leaf, fixed));
       }
       if (expected instanceof ConfigObject inner) {
         walk(child, object.get(key), inner, unknown);
@@ -95,12 +101,12 @@ final class KeyCheck {
       if (!(block instanceof ConfigObject)) {
         throw notAnObject(path, block, "a block of column settings");
       }
-      Function<List<String>, SluiceException> unknown =
-          full -> {
-            List<String> own = full.subList(COLUMN_DEPTH, full.size());
-            String shown =
-                "Column " + ConfigTree.shownColumn(name) + " in config has unknown setting ";
-            return unknownSetting(shown + ConfigUtil.joinPath(own), own, knownColumnKeys);
+      String shown = "Column " + ConfigTree.shownColumn(name) + " in config has unknown setting ";
+      Function<Unknown, SluiceException> unknown =
+          u -> {
+            List<String> own = inColumn(u.leaf());
+            Optional<List<String>> fixed = u.fixed().map(KeyCheck::inColumn);
+            return u.report(shown + ConfigUtil.joinPath(own), own, fixed, knownColumnKeys);
           };
       walk(path, block, defaults, unknown);
     }
@@ -132,26 +138,62 @@ final class KeyCheck {
     return new ArrayList<>(ConfigTree.leaves(reference, prefix, ConfigUtil::joinPath).keySet());
   }
 
-  private static SluiceException unknownSetting(
-      String message, List<String> path, List<String> known) {
-    return SluiceException.usage(message + suggestion(path, known));
+  /** A key of a column block, relative to the block. */
+  private static List<String> inColumn(List<String> full) {
+    return full.subList(COLUMN_DEPTH, full.size());
+  }
+
+  /** {@code path} with its part at {@code index} replaced. */
+  private static List<String> replaced(List<String> path, int index, String part) {
+    List<String> out = new ArrayList<>(path);
+    out.set(index, part);
+    return out;
   }
 
   /**
-   * " (did you mean K?)" for the known key whose last part is closest to the unknown one's (at most
-   * two edits), ties broken by the whole key; empty when nothing is close.
+   * An unknown key, named by its first whole key.
+   *
+   * @param leaf the whole key
+   * @param fixed the same key with the misspelt part corrected, when a sibling key is close
+   */
+  private record Unknown(List<String> leaf, Optional<List<String>> fixed) {
+    /** The message with a "did you mean": the corrected key, else the closest known key. */
+    SluiceException report(
+        String message, List<String> shown, Optional<List<String>> corrected, List<String> known) {
+      String hint =
+          corrected
+              .map(c -> " (did you mean " + ConfigUtil.joinPath(c) + "?)")
+              .orElseGet(() -> suggestion(shown, known));
+      return SluiceException.usage(message + hint);
+    }
+  }
+
+  /**
+   * " (did you mean K?)" for the known key whose last part is closest to the unknown one's, ties
+   * broken by the whole key; empty when nothing is close.
    */
   static String suggestion(List<String> path, List<String> known) {
     String last = path.get(path.size() - 1);
     String whole = ConfigUtil.joinPath(path);
-    int limit = Math.max(1, Math.min(2, last.length() / 3));
     Optional<String> best =
         known.stream()
-            .filter(k -> distance(lastPart(k), last) <= limit)
+            .filter(k -> distance(lastPart(k), last) <= limit(last))
             .min(
                 Comparator.comparingInt((String k) -> distance(lastPart(k), last))
                     .thenComparingInt(k -> distance(k, whole)));
     return best.map(k -> " (did you mean " + k + "?)").orElse("");
+  }
+
+  /** The candidate closest to {@code word}, if it is close enough to be a misspelling. */
+  private static Optional<String> closest(String word, Collection<String> candidates) {
+    return candidates.stream()
+        .filter(c -> distance(c, word) <= limit(word))
+        .min(Comparator.comparingInt((String c) -> distance(c, word)).thenComparing(c -> c));
+  }
+
+  /** Edits that still count as a misspelling: two, one for words of up to five characters. */
+  private static int limit(String word) {
+    return Math.max(1, Math.min(2, word.length() / 3));
   }
 
   private static String lastPart(String key) {

@@ -37,13 +37,22 @@ final class SettingsParser {
     ColumnSettings defaults =
         column(DEFAULTS_NAME, new ValueReader(defaultsConfig, defaultsConfig, "sluice.defaults"));
     return new Settings(
-        root.text("spark.master"),
+        master(root),
         sparkConf(sluice.getObject("spark.conf")),
         input(root),
         quantiles(root),
         collinearity(root),
         defaults,
         columns(sluice.getObject("columns"), defaultsConfig));
+  }
+
+  /** An empty master would only fail later, inside Spark, with a less direct message. */
+  private static String master(ValueReader r) {
+    String master = r.text("spark.master").strip();
+    if (master.isEmpty()) {
+      throw r.invalid("spark.master", "expected a Spark master such as local[*]");
+    }
+    return master;
   }
 
   /** Spark keys may be written nested or quoted; both give the dotted key Spark expects. */

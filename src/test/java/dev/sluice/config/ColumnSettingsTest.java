@@ -64,6 +64,10 @@ class ColumnSettingsTest {
                 + " (did you mean outliers.iqr-k?)");
     rejection("sluice.columns.\"dwell hours\".pair-threshold = 0.8")
         .isEqualTo("Column \"dwell hours\" in config has unknown setting pair-threshold");
+    rejection("sluice.columns.depot.outlier.action = keep")
+        .isEqualTo(
+            "Column depot in config has unknown setting outlier.action"
+                + " (did you mean outliers.action?)");
   }
 
   @Test

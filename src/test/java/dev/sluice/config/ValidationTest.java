@@ -35,10 +35,22 @@ class ValidationTest {
   }
 
   @Test
-  void unknownBlockNamesItsFirstKey() {
+  void unknownBlockNamesItsFirstKeyAndTheCorrectedKey() {
     rejection("sluice.colums { air_temp_c { role = keep } }")
         .isEqualTo(
-            "Unknown setting sluice.colums.air_temp_c.role (did you mean sluice.defaults.role?)");
+            "Unknown setting sluice.colums.air_temp_c.role"
+                + " (did you mean sluice.columns.air_temp_c.role?)");
+    rejection("sluice.defaults.outlier { method = mad }")
+        .isEqualTo(
+            "Unknown setting sluice.defaults.outlier.method"
+                + " (did you mean sluice.defaults.outliers.method?)");
+  }
+
+  @Test
+  void sparkMasterMustNotBeEmpty() {
+    rejection("sluice.spark.master = \"\"")
+        .isEqualTo(
+            "Cannot set sluice.spark.master to \"\": expected a Spark master such as local[*]");
   }
 
   @Test
