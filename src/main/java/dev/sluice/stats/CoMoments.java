@@ -27,7 +27,7 @@ import java.util.Arrays;
  * matrix (p(p + 1) / 2 multiply-adds, no allocation). A row with a missing entry updates, for each
  * ordered pair (j, k) with j present, the count, mean and squared deviations of x_j over the rows
  * where k is also present or where k is missing, and the co-moment where both are present (p^2
- * cells, one division each). Memory is about 9 p^2 numbers.
+ * cells, one division each). Memory is about 8 p^2 numbers.
  *
  * <p>Edge cases: NaN marks a missing entry; infinite entries and centres are rejected; no rows or
  * one row give NaN covariances. Merging requires the same centres and is cell-by-cell (Chan et
@@ -77,7 +77,8 @@ public final class CoMoments implements Serializable {
    */
   public void add(double[] values) {
     if (values.length != p) {
-      throw new IllegalArgumentException("Cannot add a row of " + values.length + " values to " + p + " columns");
+      throw new IllegalArgumentException(
+          "Cannot add a row of " + values.length + " values to " + p + " columns");
     }
     double[] s = shiftedBuffer();
     boolean anyMissing = false;
@@ -235,7 +236,8 @@ public final class CoMoments implements Serializable {
 
   private void checkImputed(double[] imputed) {
     if (imputed.length != p) {
-      throw new IllegalArgumentException("Cannot impute " + imputed.length + " values into " + p + " columns");
+      throw new IllegalArgumentException(
+          "Cannot impute " + imputed.length + " values into " + p + " columns");
     }
     for (double c : imputed) {
       if (Double.isInfinite(c)) {

@@ -26,8 +26,8 @@ public final class QuantileGrid {
    */
   public QuantileGrid(double[] probabilities, double[] values) {
     if (probabilities.length != values.length || values.length < 2) {
-      throw new IllegalArgumentException("A quantile grid needs two or more probabilities and as many values, not "
-          + probabilities.length + " and " + values.length);
+      throw new IllegalArgumentException("A quantile grid needs two or more probabilities and as"
+          + " many values, not " + probabilities.length + " and " + values.length);
     }
     this.probabilities = probabilities.clone();
     this.values = values.clone();

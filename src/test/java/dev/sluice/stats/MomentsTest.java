@@ -6,12 +6,17 @@ import static org.assertj.core.api.Assertions.within;
 
 import dev.sluice.stats.ReferenceData.Strd;
 import java.util.Arrays;
+import java.util.List;
 import org.apache.commons.math3.stat.descriptive.DescriptiveStatistics;
 import org.junit.jupiter.api.Test;
 import org.junit.jupiter.params.ParameterizedTest;
-import org.junit.jupiter.params.provider.ValueSource;
+import org.junit.jupiter.params.provider.MethodSource;
 
 class MomentsTest {
+  /** The NIST StRD univariate summary statistics data sets. */
+  static List<String> strdSets() {
+    return List.of("NumAcc1", "NumAcc2", "NumAcc3", "NumAcc4", "Michelso", "Mavro", "Lew", "Lottery", "PiDigits");
+  }
 
   /**
    * The certified values are for the decimal data; each datum is stored as a double to within half
@@ -37,7 +42,7 @@ class MomentsTest {
   // NIST StRD univariate summary statistics; certified mean and standard deviation (n - 1) read
   // from each file's header (files as shipped in the commons-math3 3.6.1 tests jar).
   @ParameterizedTest(name = "{0}")
-  @ValueSource(strings = {"NumAcc1", "NumAcc2", "NumAcc3", "NumAcc4", "Michelso", "Mavro", "Lew", "Lottery", "PiDigits"})
+  @MethodSource("strdSets")
   void accumulatorMatchesNistCertifiedValues(String name) {
     Strd set = ReferenceData.strd(name);
     Moments m = accumulate(set.data(), 0, set.data().length);
@@ -50,7 +55,7 @@ class MomentsTest {
   // Commons Math 3 DescriptiveStatistics (two-pass, corrected) on the very same doubles: agreement
   // well beyond the input rounding shows the accumulator loses no digits of its own.
   @ParameterizedTest(name = "{0}")
-  @ValueSource(strings = {"NumAcc1", "NumAcc2", "NumAcc3", "NumAcc4", "Michelso", "Mavro", "Lew", "Lottery", "PiDigits"})
+  @MethodSource("strdSets")
   void accumulatorMatchesCommonsMathOnTheSameDoubles(String name) {
     Strd set = ReferenceData.strd(name);
     DescriptiveStatistics reference = new DescriptiveStatistics(set.data());
@@ -64,7 +69,7 @@ class MomentsTest {
 
   // NIST StRD certified values again, now from two halves combined by merge.
   @ParameterizedTest(name = "{0}")
-  @ValueSource(strings = {"NumAcc1", "NumAcc2", "NumAcc3", "NumAcc4", "Michelso", "Mavro", "Lew", "Lottery", "PiDigits"})
+  @MethodSource("strdSets")
   void mergedHalvesMatchNistCertifiedValues(String name) {
     Strd set = ReferenceData.strd(name);
     int half = set.data().length / 3;

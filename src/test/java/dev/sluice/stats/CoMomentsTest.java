@@ -1,0 +1,224 @@
+package dev.sluice.stats;
+
+import static org.assertj.core.api.Assertions.assertThat;
+import static org.assertj.core.api.Assertions.assertThatThrownBy;
+import static org.assertj.core.api.Assertions.within;
+
+import java.io.ByteArrayInputStream;
+import java.io.ByteArrayOutputStream;
+import java.io.IOException;
+import java.io.ObjectInputStream;
+import java.io.ObjectOutputStream;
+import java.util.ArrayList;
+import java.util.Arrays;
+import java.util.List;
+import java.util.Random;
+import java.util.stream.Stream;
+import org.apache.commons.math3.stat.correlation.Covariance;
+import org.apache.commons.math3.stat.correlation.PearsonsCorrelation;
+import org.apache.commons.math3.stat.descriptive.moment.Variance;
+import org.junit.jupiter.api.Test;
+import org.junit.jupiter.params.ParameterizedTest;
+import org.junit.jupiter.params.provider.Arguments;
+import org.junit.jupiter.params.provider.MethodSource;
+
+/**
+ * References: Commons Math 3 Covariance and PearsonsCorrelation on the generated data after the
+ * missing entries were filled in by hand (or, for pairwise complete, on the rows where a pair is
+ * present).
+ */
+class CoMomentsTest {
+  private static final double NAN = Double.NaN;
+  private static final int ROWS = 300;
+  private static final int P = 4;
+
+  /** Correlated columns of differing scales around an offset of 1000; about 15 % missing in 0-2. */
+  static double[][] generated(long seed) {
+    Random random = new Random(seed);
+    double[][] rows = new double[ROWS][];
+    for (int i = 0; i < ROWS; i++) {
+      double a = random.nextGaussian();
+      double b = 0.6 * a + 0.8 * random.nextGaussian();
+      double[] row = {1000 + 3 * a, 1000 + 0.5 * b, -1000 + 20 * (a - b) + random.nextGaussian(), 7 * random.nextGaussian()};
+      for (int j = 0; j < 3; j++) {
+        if (random.nextDouble() < 0.15) {
+          row[j] = NAN;
+        }
+      }
+      rows[i] = row;
+    }
+    return rows;
+  }
+
+  static double[][] filled(double[][] rows, double[] imputed) {
+    double[][] result = new double[rows.length][];
+    for (int i = 0; i < rows.length; i++) {
+      result[i] = rows[i].clone();
+      for (int j = 0; j < P; j++) {
+        if (Double.isNaN(result[i][j]) && !Double.isNaN(imputed[j])) {
+          result[i][j] = imputed[j];
+        }
+      }
+    }
+    return result;
+  }
+
+  /** Accumulates the rows in four parts of uneven size (one empty) and merges them. */
+  static CoMoments accumulate(double[][] rows, double[] centres) {
+    List<CoMoments> parts = new ArrayList<>();
+    for (int part = 0; part < 4; part++) {
+      parts.add(new CoMoments(centres));
+    }
+    for (int i = 0; i < rows.length; i++) {
+      parts.get(i < 40 ? 0 : i < 200 ? 2 : 3).add(rows[i]);
+    }
+    return parts.get(0).merge(parts.get(1)).merge(parts.get(2)).merge(parts.get(3));
+  }
+
+  static Stream<Arguments> imputations() {
+    double[] good = {1000, 1000, -1000, 0};
+    double[] bad = {1e9, -1e9, 1e9, 1e9};
+    List<Arguments> cases = new ArrayList<>();
+    for (double[] imputed : List.of(new double[] {1000, 1000, -1000, 0}, new double[] {0, 0, 0, 0},
+        new double[] {1003.5, 998.25, -950, 12}, new double[] {-5e3, 2e4, 1e3, 0})) {
+      // A centre 1e9 away stores x - centre to within ulp(1e9) / 2 = 6e-8, against column spreads
+      // of 0.5 to 20: relative errors near 1e-7, so 1e-6; a good centre leaves only rounding.
+      cases.add(Arguments.of(imputed, good, 1e-11));
+      cases.add(Arguments.of(imputed, bad, 1e-6));
+    }
+    return cases.stream();
+  }
+
+  @ParameterizedTest
+  @MethodSource("imputations")
+  void covarianceAfterImputationMatchesCommonsMathOnFilledData(double[] imputed, double[] centres, double relative) {
+    double[][] rows = generated(11L);
+    double[][] expected = new Covariance(filled(rows, imputed)).getCovarianceMatrix().getData();
+    double[][] actual = accumulate(rows, centres).covariance(imputed);
+    for (int j = 0; j < P; j++) {
+      for (int k = 0; k < P; k++) {
+        double scale = Math.sqrt(expected[j][j] * expected[k][k]);
+        assertThat(actual[j][k]).as("cov %d %d", j, k).isCloseTo(expected[j][k], within(relative * scale));
+      }
+    }
+  }
+
+  @ParameterizedTest
+  @MethodSource("imputations")
+  void correlationAfterImputationMatchesCommonsMathOnFilledData(double[] imputed, double[] centres, double relative) {
+    double[][] rows = generated(12L);
+    double[][] expected = new PearsonsCorrelation(filled(rows, imputed)).getCorrelationMatrix().getData();
+    double[][] actual = accumulate(rows, centres).correlation(imputed);
+    for (int j = 0; j < P; j++) {
+      assertThat(actual[j]).as("row %d", j).containsExactly(expected[j], within(relative));
+    }
+  }
+
+  // NaN imputation: Commons Math on the rows where each pair (after filling the imputed columns)
+  // is present; the variances of a pair's correlation come from the same rows.
+  @ParameterizedTest
+  @MethodSource("pairwiseCases")
+  void pairwiseCompleteMatchesCommonsMathOnPresentPairs(double[] imputed) {
+    double[][] rows = filled(generated(13L), imputed);
+    CoMoments moments = accumulate(generated(13L), new double[] {1000, 1000, -1000, 0});
+    double[][] cov = moments.covariance(imputed);
+    double[][] cor = moments.correlation(imputed);
+    for (int j = 0; j < P; j++) {
+      for (int k = 0; k < P; k++) {
+        double[][] pair = presentPairs(rows, j, k);
+        double expectedCov = j == k ? new Variance().evaluate(pair[0]) : new Covariance().covariance(pair[0], pair[1]);
+        double expectedCor = j == k ? 1.0 : new PearsonsCorrelation().correlation(pair[0], pair[1]);
+        assertThat(cov[j][k]).as("cov %d %d", j, k).isCloseTo(expectedCov, within(1e-11 * Math.abs(expectedCov) + 1e-12));
+        assertThat(cor[j][k]).as("cor %d %d", j, k).isCloseTo(expectedCor, within(1e-12));
+      }
+    }
+  }
+
+  static Stream<double[]> pairwiseCases() {
+    return Stream.of(new double[] {NAN, NAN, NAN, NAN}, new double[] {NAN, 1001.5, NAN, 0.0});
+  }
+
+  @Test
+  void constantColumnHasNaNCorrelationAndZeroCovariance() {
+    double[][] rows = generated(14L);
+    for (double[] row : rows) {
+      row[3] = 2.5;
+    }
+    CoMoments moments = accumulate(rows, new double[] {1000, 1000, -1000, 2.5});
+    double[] imputed = {1000, 1000, -1000, NAN};
+    double[][] cor = moments.correlation(imputed);
+    assertThat(moments.covariance(imputed)[3][3]).isZero();
+    assertThat(cor[3]).containsOnly(NAN);
+    assertThat(cor[0][3]).isNaN();
+    assertThat(cor[0][0]).isEqualTo(1.0);
+  }
+
+  @Test
+  void survivesSerializationMidStream() throws IOException, ClassNotFoundException {
+    double[][] rows = generated(15L);
+    double[] centres = {1000, 1000, -1000, 0};
+    CoMoments first = new CoMoments(centres);
+    for (int i = 0; i < ROWS / 2; i++) {
+      first.add(rows[i]);
+    }
+    CoMoments copy = roundTrip(first);
+    for (int i = ROWS / 2; i < ROWS; i++) {
+      copy.add(rows[i]);
+    }
+    double[] imputed = {999, 1001, -1000, 0};
+    double[][] expected = new Covariance(filled(rows, imputed)).getCovarianceMatrix().getData();
+    assertThat(copy.rows()).isEqualTo(ROWS);
+    assertThat(copy.covariance(imputed)[0]).containsExactly(expected[0], within(1e-10));
+  }
+
+  @Test
+  void fewerThanTwoRowsGiveNaN() {
+    CoMoments moments = new CoMoments(new double[] {0, 0});
+    assertThat(moments.covariance(new double[] {0, 0})[0]).containsOnly(NAN);
+    moments.add(new double[] {1, 2});
+    assertThat(moments.rows()).isEqualTo(1);
+    assertThat(moments.covariance(new double[] {0, 0})[0]).containsOnly(NAN);
+    assertThat(moments.correlation(new double[] {0, 0})[1]).containsOnly(NAN);
+  }
+
+  @Test
+  void countsRowsWithMissingEntries() {
+    CoMoments moments = new CoMoments(new double[] {0, 0, 0});
+    moments.add(new double[] {1, NAN, 3});
+    moments.add(new double[] {NAN, NAN, NAN});
+    moments.add(new double[] {1, 2, 3});
+    assertThat(moments.rows()).isEqualTo(3);
+    assertThat(moments.dimension()).isEqualTo(3);
+  }
+
+  @Test
+  void rejectsBadInput() {
+    CoMoments moments = new CoMoments(new double[] {0, 0});
+    assertThatThrownBy(() -> moments.add(new double[] {1})).isInstanceOf(IllegalArgumentException.class)
+        .hasMessage("Cannot add a row of 1 values to 2 columns");
+    assertThatThrownBy(() -> moments.add(new double[] {1, Double.NEGATIVE_INFINITY}))
+        .isInstanceOf(IllegalArgumentException.class);
+    assertThat(moments.rows()).isZero();
+    assertThatThrownBy(() -> moments.covariance(new double[] {0})).isInstanceOf(IllegalArgumentException.class);
+    assertThatThrownBy(() -> moments.merge(new CoMoments(new double[] {0, 1})))
+        .isInstanceOf(IllegalArgumentException.class);
+    assertThatThrownBy(() -> new CoMoments(new double[] {NAN})).isInstanceOf(IllegalArgumentException.class);
+    assertThatThrownBy(() -> new CoMoments(new double[0])).isInstanceOf(IllegalArgumentException.class);
+  }
+
+  private static double[][] presentPairs(double[][] rows, int j, int k) {
+    double[][] pair = Arrays.stream(rows).filter(r -> !Double.isNaN(r[j]) && !Double.isNaN(r[k]))
+        .map(r -> new double[] {r[j], r[k]}).toArray(double[][]::new);
+    return new double[][] {ReferenceData.column(pair, 0), ReferenceData.column(pair, 1)};
+  }
+
+  private static CoMoments roundTrip(CoMoments moments) throws IOException, ClassNotFoundException {
+    ByteArrayOutputStream bytes = new ByteArrayOutputStream();
+    try (ObjectOutputStream out = new ObjectOutputStream(bytes)) {
+      out.writeObject(moments);
+    }
+    try (ObjectInputStream in = new ObjectInputStream(new ByteArrayInputStream(bytes.toByteArray()))) {
+      return (CoMoments) in.readObject();
+    }
+  }
+}
