@@ -2,6 +2,7 @@ package dev.sluice;
 
 import dev.sluice.config.Role;
 import dev.sluice.config.Settings;
+import dev.sluice.config.SettingsLoader;
 import dev.sluice.plan.OutlierPlan;
 import dev.sluice.plan.Plan;
 import dev.sluice.plan.Planner;
@@ -70,21 +71,10 @@ public final class Sluice {
         .filter(org.apache.spark.sql.functions.col(TreatedTable.REASON_COLUMN).isNotNull());
   }
 
+  /** Configured columns exist and their settings fit their types, before any Spark job. */
   static void checkColumns(Dataset<Row> data, Settings settings) {
-    List<String> have = List.of(data.columns());
-    List<String> missing = settings.columns().keySet().stream().filter(c -> !have.contains(c)).toList();
-    if (!missing.isEmpty()) {
-      throw SluiceException.usage("Column(s) " + String.join(", ", missing)
-          + " in config (sluice.columns) not in the table; its columns are: " + abbreviate(have));
-    }
+    SettingsLoader.requireColumnsExist(settings, List.of(data.columns()));
     Roles.checkTypes(data.schema(), settings);
-  }
-
-  private static String abbreviate(List<String> names) {
-    if (names.size() <= 30) {
-      return String.join(", ", names);
-    }
-    return String.join(", ", names.subList(0, 30)) + " and " + (names.size() - 30) + " more";
   }
 
   static double elapsed(long startNanos) {

@@ -44,7 +44,8 @@ public final class Main {
       LOG.debug("sluice failed", e);
       err.println("sluice: " + oneLine(e.getMessage()));
       return e.kind().exitCode;
-    } catch (RuntimeException | Error e) {
+    } catch (Exception | Error e) {
+      // Spark throws checked exceptions (SparkException) without declaring them.
       LOG.error("sluice failed unexpectedly", e);
       err.println("sluice: unexpected failure: " + e.getClass().getSimpleName() + ": "
           + oneLine(e.getMessage()) + " (details in the log)");

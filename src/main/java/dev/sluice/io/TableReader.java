@@ -35,7 +35,8 @@ public final class TableReader {
       data.schema(); // resolve now, so a bad table fails here with its path
     } catch (SluiceException e) {
       throw e;
-    } catch (RuntimeException e) {
+    } catch (Exception e) {
+      // Spark throws checked exceptions (SparkException) without declaring them.
       throw SluiceException.input(
           "Cannot read " + path + " as " + format + ": " + firstLine(e.getMessage()), e);
     }

@@ -30,7 +30,7 @@ import org.junit.jupiter.api.io.TempDir;
 @ExtendWith(SharedSpark.class)
 @TestInstance(TestInstance.Lifecycle.PER_CLASS)
 class SampleRunTest {
-  @TempDir Path tmp;
+  @TempDir static Path tmp;
   Path out;
   int exit;
   String stdout;

@@ -1,10 +1,11 @@
 package dev.sluice.stats;
 
+import dev.sluice.testing.ReferenceData;
 import static org.assertj.core.api.Assertions.assertThat;
 import static org.assertj.core.api.Assertions.assertThatThrownBy;
 import static org.assertj.core.api.Assertions.within;
 
-import dev.sluice.stats.ReferenceData.Strd;
+import dev.sluice.testing.ReferenceData.Strd;
 import java.util.Arrays;
 import java.util.List;
 import org.apache.commons.math3.stat.descriptive.DescriptiveStatistics;

@@ -1,5 +1,6 @@
 package dev.sluice.stats;
 
+import dev.sluice.testing.ReferenceData;
 import static org.assertj.core.api.Assertions.assertThat;
 import static org.assertj.core.api.Assertions.assertThatThrownBy;
 import static org.assertj.core.api.Assertions.within;

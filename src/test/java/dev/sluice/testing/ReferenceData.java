@@ -1,4 +1,4 @@
-package dev.sluice.stats;
+package dev.sluice.testing;
 
 import java.io.BufferedReader;
 import java.io.IOException;
@@ -12,7 +12,7 @@ import java.util.regex.Matcher;
 import java.util.regex.Pattern;
 
 /** Loads the outside reference data sets the tests check against. */
-final class ReferenceData {
+public final class ReferenceData {
   private static final Pattern NUMBER_LINE =
       Pattern.compile("\\s*[-+]?\\d+(\\.\\d*)?([eE][-+]?\\d+)?\\s*");
   // The two header layouts of the StRD files: "Sample Mean ... ybar: v" and "mean = v".
@@ -23,14 +23,14 @@ final class ReferenceData {
   private ReferenceData() {}
 
   /** A NIST StRD univariate data set with its certified mean and standard deviation (n - 1). */
-  record Strd(String name, double[] data, double certifiedMean, double certifiedStddev) {}
+  public record Strd(String name, double[] data, double certifiedMean, double certifiedStddev) {}
 
   /**
    * Reads a NIST StRD univariate summary statistics file as shipped in the Commons Math 3.6.1
    * tests jar (org/apache/commons/math3/stat/data). The certified values come from the file's own
    * header; the data are the lines that hold one number only.
    */
-  static Strd strd(String name) {
+  public static Strd strd(String name) {
     List<String> lines = lines("org/apache/commons/math3/stat/data/" + name + ".txt");
     List<Double> data = new ArrayList<>();
     double mean = Double.NaN;
@@ -49,7 +49,7 @@ final class ReferenceData {
    * The Longley data (NIST StRD linear regression), src/test/resources/reference/longley.csv:
    * 16 rows of y, x1, ..., x6.
    */
-  static double[][] longleyRows() {
+  public static double[][] longleyRows() {
     List<double[]> rows = new ArrayList<>();
     for (String line : lines("reference/longley.csv")) {
       if (!line.startsWith("#") && !line.startsWith("y,") && !line.isBlank()) {
@@ -64,7 +64,7 @@ final class ReferenceData {
     return rows.toArray(new double[0][]);
   }
 
-  static double[] column(double[][] rows, int j) {
+  public static double[] column(double[][] rows, int j) {
     double[] column = new double[rows.length];
     for (int i = 0; i < rows.length; i++) {
       column[i] = rows[i][j];
