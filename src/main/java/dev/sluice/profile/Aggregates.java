@@ -5,13 +5,26 @@ import java.util.List;
 import org.apache.spark.sql.Column;
 import org.apache.spark.sql.Dataset;
 import org.apache.spark.sql.Row;
+import org.apache.spark.sql.functions;
 
 /**
  * Collects aggregate expressions for many columns into one {@code agg}, so that a whole table's
  * statistics come from a single Spark job, and reads the one result row back by position.
+ *
+ * <p>Inputs of the aggregates are registered with {@link #input} and computed once per row in a
+ * projection below the aggregate. The aggregate functions then read plain columns: with hundreds
+ * of columns this keeps the generated code, and Spark's planning of it, small.
  */
 public final class Aggregates {
   private final List<Column> columns = new ArrayList<>();
+  private final List<Column> inputs = new ArrayList<>();
+
+  /** Registers an expression over the table's rows and returns a reference to its value. */
+  public Column input(Column expression) {
+    String name = "_in" + inputs.size();
+    inputs.add(expression.alias(name));
+    return functions.col(name);
+  }
 
   /** Adds an aggregate and returns its position in the result row. */
   public int add(Column aggregate) {
@@ -30,7 +43,10 @@ public final class Aggregates {
     }
     Column first = columns.get(0);
     Column[] rest = columns.subList(1, columns.size()).toArray(new Column[0]);
-    return data.agg(first, rest).first();
+    Dataset<Row> projected = inputs.isEmpty()
+        ? data.select(functions.lit(1))
+        : data.select(inputs.toArray(new Column[0]));
+    return projected.agg(first, rest).first();
   }
 
   public static long longAt(Row row, int pos) {

@@ -72,7 +72,8 @@ public final class Profiler {
       at[i] = -1;
       if (c.treated() && cs.outliers().method() == OutlierMethod.MAD && c.usable() > 0) {
         Column v = ValueExprs.usable(asDouble(c.name()), cs.validMin(), cs.validMax());
-        at[i] = aggs.add(spec.of(abs(v.minus(lit(c.median()))), new double[] {0.5}));
+        Column deviation = aggs.input(abs(v.minus(lit(c.median()))));
+        at[i] = aggs.add(spec.of(deviation, new double[] {0.5}));
       }
     }
     if (aggs.isEmpty()) {
@@ -98,7 +99,7 @@ public final class Profiler {
 
     static Slots plan(Aggregates a, StructField f, Role role, ColumnSettings cs, QuantileSpec spec) {
       ColumnKind kind = ColumnKind.of(f.dataType());
-      Column c = Names.col(f.name());
+      Column c = a.input(Names.col(f.name()));
       int nonNull = a.add(count(c));
       if (role == Role.IDENTIFIER) {
         return new Slots(f, kind, role, nonNull, -1, -1, -1, -1, -1, -1, -1, -1, -1,
@@ -122,8 +123,8 @@ public final class Profiler {
 
     private static Slots numeric(
         Aggregates a, StructField f, Role role, ColumnSettings cs, QuantileSpec spec, int nonNull) {
-      Column x = asDouble(f.name());
-      Column v = ValueExprs.usable(x, cs.validMin(), cs.validMax());
+      Column x = a.input(asDouble(f.name()));
+      Column v = a.input(ValueExprs.usable(asDouble(f.name()), cs.validMin(), cs.validMax()));
       Column finite = ValueExprs.isFinite(x);
       return new Slots(f, ColumnKind.NUMERIC, role, nonNull,
           a.add(count_if(ValueExprs.isNan(x))),

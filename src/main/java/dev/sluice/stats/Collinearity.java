@@ -4,11 +4,6 @@ import java.util.ArrayList;
 import java.util.Arrays;
 import java.util.Comparator;
 import java.util.List;
-import org.apache.commons.math3.linear.DecompositionSolver;
-import org.apache.commons.math3.linear.LUDecomposition;
-import org.apache.commons.math3.linear.MatrixUtils;
-import org.apache.commons.math3.linear.RealMatrix;
-import org.apache.commons.math3.linear.RealVector;
 
 /**
  * Variance inflation factors from a correlation matrix, detection of exact linear dependence, and
@@ -61,20 +56,18 @@ public final class Collinearity {
    */
   public static VifResult vif(List<String> columns, double[][] correlation) {
     checkShape(columns, correlation);
-    List<Integer> independent = new ArrayList<>();
-    List<Dependence> dependences = new ArrayList<>();
     double[] vif = new double[columns.size()];
     Arrays.fill(vif, Double.NaN);
-    for (int j : usableColumns(correlation)) {
-      List<Integer> on = dependenceOn(j, independent, correlation);
-      if (on == null) {
-        independent.add(j);
-      } else {
-        vif[j] = Double.POSITIVE_INFINITY;
-        dependences.add(new Dependence(columns.get(j), on.stream().map(columns::get).toList()));
-      }
+    Factor f = Factor.of(correlation, usableColumns(correlation));
+    List<Dependence> dependences = new ArrayList<>();
+    f.dependent.forEach((j, on) -> {
+      vif[j] = Double.POSITIVE_INFINITY;
+      dependences.add(new Dependence(columns.get(j), on.stream().map(columns::get).toList()));
+    });
+    double[][] inverse = f.inverse();
+    for (int a = 0; a < f.independent.size(); a++) {
+      vif[f.independent.get(a)] = inverse[a][a];
     }
-    fillVif(vif, independent, correlation);
     return new VifResult(List.copyOf(columns), vif, List.copyOf(dependences));
   }
 
@@ -83,6 +76,11 @@ public final class Collinearity {
    * every remaining VIF is at or under {@code limit}. Returns the dropped columns in order.
    * Columns left out of the VIF (NaN) are never dropped.
    *
+   * <p>Exactly dependent columns have infinite VIF and go first, the latest first; dropping one
+   * leaves the others' dependence on earlier independent columns intact. On the non-singular rest
+   * each drop updates the inverse matrix in O(p^2) (the inverse of a principal submatrix follows
+   * from the full inverse), so the whole search costs one factorization.
+   *
    * @throws IllegalArgumentException for a limit under 1 (every VIF is at least 1) or NaN
    */
   public static List<String> suggestDrops(List<String> columns, double[][] correlation, double limit) {
@@ -90,19 +88,48 @@ public final class Collinearity {
     if (!(limit >= 1.0)) {
       throw new IllegalArgumentException("Cannot limit VIF to " + limit + ": the limit must be 1 or more");
     }
-    List<Integer> kept = new ArrayList<>();
-    for (int i = 0; i < columns.size(); i++) {
-      kept.add(i);
-    }
+    Factor f = Factor.of(correlation, usableColumns(correlation));
     List<String> dropped = new ArrayList<>();
-    while (true) {
-      double[] vif = vif(kept.stream().map(columns::get).toList(), select(correlation, kept)).vif();
-      int worst = highest(vif);
-      if (worst < 0 || vif[worst] <= limit) {
-        return List.copyOf(dropped);
+    List<Integer> dependent = new ArrayList<>(f.dependent.keySet());
+    dependent.sort(Comparator.reverseOrder());
+    dependent.forEach(j -> dropped.add(columns.get(j)));
+    List<Integer> kept = new ArrayList<>(f.independent);
+    double[][] inverse = f.inverse();
+    while (!kept.isEmpty()) {
+      int worst = 0;
+      for (int a = 1; a < kept.size(); a++) {
+        if (inverse[a][a] >= inverse[worst][worst]) {
+          worst = a;
+        }
+      }
+      if (inverse[worst][worst] <= limit) {
+        break;
       }
       dropped.add(columns.get(kept.remove(worst)));
+      inverse = withoutIndex(inverse, worst);
     }
+    return List.copyOf(dropped);
+  }
+
+  /**
+   * The inverse of the matrix with row and column k removed, from the inverse S of the whole:
+   * S' = S_(-k,-k) - S_(-k,k) S_(k,-k) / S_kk.
+   */
+  static double[][] withoutIndex(double[][] s, int k) {
+    int n = s.length - 1;
+    double[][] out = new double[n][n];
+    for (int i = 0, a = 0; i <= n; i++) {
+      if (i == k) {
+        continue;
+      }
+      for (int j = 0, b = 0; j <= n; j++) {
+        if (j != k) {
+          out[a][b++] = s[i][j] - s[i][k] * s[k][j] / s[k][k];
+        }
+      }
+      a++;
+    }
+    return out;
   }
 
   /**
@@ -130,45 +157,6 @@ public final class Collinearity {
     return List.copyOf(pairs);
   }
 
-  /**
-   * The independent columns that column j depends on (non-negligible coefficients of its exact
-   * regression on them), or null when 1 - R^2 reaches the tolerance.
-   */
-  private static List<Integer> dependenceOn(int j, List<Integer> independent, double[][] correlation) {
-    if (independent.isEmpty()) {
-      return null;
-    }
-    RealVector target = MatrixUtils.createRealVector(row(correlation, j, independent));
-    RealVector beta = solver(correlation, independent).solve(target);
-    double unexplained = (correlation[j][j] - beta.dotProduct(target)) / correlation[j][j];
-    if (unexplained >= SINGULAR_TOLERANCE) {
-      return null;
-    }
-    double largest = beta.getLInfNorm();
-    List<Integer> on = new ArrayList<>();
-    for (int i = 0; i < independent.size(); i++) {
-      if (Math.abs(beta.getEntry(i)) > NEGLIGIBLE_COEFFICIENT * largest) {
-        on.add(independent.get(i));
-      }
-    }
-    return on;
-  }
-
-  private static void fillVif(double[] vif, List<Integer> independent, double[][] correlation) {
-    if (independent.isEmpty()) {
-      return;
-    }
-    RealMatrix inverse = solver(correlation, independent).getInverse();
-    for (int i = 0; i < independent.size(); i++) {
-      vif[independent.get(i)] = inverse.getEntry(i, i);
-    }
-  }
-
-  private static DecompositionSolver solver(double[][] correlation, List<Integer> columns) {
-    // The independent set passed the tolerance column by column, so no pivot is near zero.
-    return new LUDecomposition(MatrixUtils.createRealMatrix(select(correlation, columns)), 0.0).getSolver();
-  }
-
   /** Leaves out NaN-diagonal columns, then both ends of any NaN correlation among the rest. */
   private static List<Integer> usableColumns(double[][] correlation) {
     List<Integer> candidates = new ArrayList<>();
@@ -185,17 +173,6 @@ public final class Collinearity {
       }
     }
     return usable;
-  }
-
-  /** Index of the highest non-NaN value, the later one on ties; -1 when all are NaN. */
-  private static int highest(double[] values) {
-    int best = -1;
-    for (int i = 0; i < values.length; i++) {
-      if (!Double.isNaN(values[i]) && (best < 0 || values[i] >= values[best])) {
-        best = i;
-      }
-    }
-    return best;
   }
 
   private static double[][] select(double[][] matrix, List<Integer> indices) {

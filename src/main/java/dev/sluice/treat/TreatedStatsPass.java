@@ -58,8 +58,9 @@ public final class TreatedStatsPass {
       OutlierPlan o = outliers.get(c.name());
       Double lo = cs.validMin().isPresent() ? cs.validMin().getAsDouble() : null;
       Double hi = cs.validMax().isPresent() ? cs.validMax().getAsDouble() : null;
-      Column t = Treatments.afterOutliers(c.name(), lo, hi, o);
-      slots.put(c.name(), columnAggregates(aggs, Treatments.valid(c.name(), lo, hi), t, o, cs, spec));
+      Column t = aggs.input(Treatments.afterOutliers(c.name(), lo, hi, o));
+      Column v = aggs.input(Treatments.valid(c.name(), lo, hi));
+      slots.put(c.name(), columnAggregates(aggs, v, t, o, cs, spec));
       if (c.usable() > 0 && c.grid() != null) {
         corr.add(c);
         corrValues.add(t);
