@@ -11,6 +11,9 @@ import dev.sluice.profile.Profiler;
 import dev.sluice.profile.TableProfile;
 import dev.sluice.treat.TreatedStatsPass;
 import dev.sluice.treat.TreatedTable;
+import dev.sluice.treat.TreatmentSplit;
+import java.util.Optional;
+import org.apache.spark.sql.Column;
 import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Map;
@@ -53,22 +56,24 @@ public final class Sluice {
     TreatedStats stats = TreatedStatsPass.run(data, profile, outliers, settings);
     seconds.put("treated-statistics", elapsed(t1));
     Plan plan = Planner.finish(profile, settings, outliers, stats);
-    TreatedTable.checkNoCollisions(data, plan);
+    TreatedTable.checkNoCollisions(data.schema(), plan);
     return new Fit(profile, plan, stats, seconds);
   }
 
   /** The treated rows: the plan applied, quarantined rows left out. */
   public static Dataset<Row> treat(Dataset<Row> data, Plan plan) {
-    Dataset<Row> kept = TreatedTable.quarantines(plan)
-        ? data.filter(TreatedTable.reason(plan).isNull())
-        : data;
-    return kept.select(TreatedTable.projection(data, plan).toArray(new org.apache.spark.sql.Column[0]));
+    return TreatmentSplit.of(data, data.schema(), Optional.empty(), plan).treated();
   }
 
-  /** The rows held back, with original values and the {@code quarantine_reason} column. */
+  /**
+   * The rows held back, with original values and the quarantine_stage, quarantine_column,
+   * quarantine_rule, quarantine_value and quarantine_reasons columns (empty when none can be).
+   */
   public static Dataset<Row> quarantine(Dataset<Row> data, Plan plan) {
-    return data.withColumn(TreatedTable.REASON_COLUMN, TreatedTable.reason(plan))
-        .filter(org.apache.spark.sql.functions.col(TreatedTable.REASON_COLUMN).isNotNull());
+    TreatmentSplit split = TreatmentSplit.of(data, data.schema(), Optional.empty(), plan);
+    return split.quarantined().orElseGet(() -> data.limit(0)
+        .withColumn(TreatmentSplit.WORK, TreatedTable.reasons(plan, Optional.empty()))
+        .select(TreatedTable.quarantineProjection(data.schema()).toArray(new Column[0])));
   }
 
   /** Configured columns exist and their settings fit their types, before any Spark job. */

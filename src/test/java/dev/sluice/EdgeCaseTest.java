@@ -96,7 +96,10 @@ class EdgeCaseTest {
     assertThat(Sluice.treat(data, f.plan()).count()).isEqualTo(2);
     List<Row> q = Sluice.quarantine(data, f.plan()).collectAsList();
     assertThat(q).hasSize(1);
-    assertThat(column(q, "quarantine_reason")).containsExactly("required x is missing");
+    assertThat(column(q, "quarantine_stage")).containsExactly("required");
+    assertThat(column(q, "quarantine_column")).containsExactly("x");
+    assertThat(column(q, "quarantine_value")).containsExactly("null");
+    assertThat(column(q, "x")).as("original value kept").containsExactly((Object) null);
   }
 
   @Test

@@ -17,12 +17,16 @@ public record Arguments(
     Optional<String> format,
     String output,
     Optional<String> config,
-    List<String> sets) {
+    List<String> sets,
+    Optional<String> where,
+    boolean replace) {
 
   public static final String USAGE = String.join("\n",
       "Usage:",
       "  sluice run    --input PATH [--format parquet|csv|orc|json] --output DIR [--config FILE] [--set KEY=VALUE]...",
+      "                [--where PREDICATE] [--replace]",
       "  sluice survey --input PATH [--format parquet|csv|orc|json] --output DIR [--config FILE] [--set KEY=VALUE]...",
+      "                [--where PREDICATE] [--replace]",
       "  sluice --help",
       "",
       "  run     profile the table, decide the treatment plan, treat it and write treated/,",
@@ -34,6 +38,9 @@ public record Arguments(
       "  --output DIR     where the outputs go; the input is never modified",
       "  --config FILE    a HOCON file of settings (see conf/sample.conf and reference.conf)",
       "  --set KEY=VALUE  override one setting, e.g. --set defaults.outliers.iqr-k=3",
+      "  --where PRED     treat only the rows matching a Spark SQL predicate, e.g. \"check_date = '2026-10-05'\";",
+      "                   with partitioned output only the partitions written are replaced",
+      "  --replace        allow an output directory that holds files not written by Sluice",
       "",
       "Exit codes: 0 success, 1 unexpected failure, 2 bad usage or config, 3 bad input.");
 
@@ -43,7 +50,7 @@ public record Arguments(
     }
     String command = args[0];
     if (command.equals("--help") || command.equals("-h") || command.equals("help")) {
-      return new Arguments("help", null, Optional.empty(), null, Optional.empty(), List.of());
+      return help();
     }
     if (!command.equals("run") && !command.equals("survey")) {
       throw SluiceException.usage("Unknown command " + command + "; expected run or survey (see sluice --help)");
@@ -57,10 +64,16 @@ public record Arguments(
     Optional<String> format = Optional.empty();
     Optional<String> config = Optional.empty();
     List<String> sets = new ArrayList<>();
+    Optional<String> where = Optional.empty();
+    boolean replace = false;
     for (int i = 1; i < args.length; i++) {
       String a = args[i];
       if (a.equals("--help") || a.equals("-h")) {
-        return new Arguments("help", null, Optional.empty(), null, Optional.empty(), List.of());
+        return help();
+      }
+      if (a.equals("--replace")) {
+        replace = true;
+        continue;
       }
       String value = valueOf(args, i);
       i++;
@@ -70,6 +83,7 @@ public record Arguments(
         case "--format" -> format = Optional.of(value);
         case "--config" -> config = Optional.of(value);
         case "--set" -> sets.add(value);
+        case "--where" -> where = Optional.of(value);
         default -> throw SluiceException.usage("Unknown option " + a + " (see sluice --help)");
       }
     }
@@ -79,7 +93,12 @@ public record Arguments(
     if (output == null) {
       throw SluiceException.usage("Missing --output DIR (see sluice --help)");
     }
-    return new Arguments(command, input, format, output, config, List.copyOf(sets));
+    return new Arguments(command, input, format, output, config, List.copyOf(sets), where, replace);
+  }
+
+  private static Arguments help() {
+    return new Arguments("help", null, Optional.empty(), null, Optional.empty(), List.of(),
+        Optional.empty(), false);
   }
 
   private static String valueOf(String[] args, int i) {

@@ -5,35 +5,38 @@ import static org.apache.spark.sql.functions.lit;
 
 import dev.sluice.SluiceException;
 import dev.sluice.Sluice;
-import dev.sluice.config.InputSettings;
 import dev.sluice.config.Settings;
 import dev.sluice.io.InputTable;
+import dev.sluice.io.OutputLayout;
 import dev.sluice.io.TableReader;
 import dev.sluice.report.CorrelationTable;
 import dev.sluice.report.Outputs;
 import dev.sluice.report.SummaryTable;
-import dev.sluice.treat.TreatedTable;
+import dev.sluice.treat.TreatmentSplit;
 import java.io.PrintStream;
 import java.time.Instant;
 import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Map;
-import java.util.Optional;
+import java.util.Set;
 import java.util.UUID;
 import java.util.concurrent.TimeUnit;
 import org.apache.hadoop.fs.Path;
+import org.apache.spark.sql.DataFrameWriter;
 import org.apache.spark.sql.Dataset;
 import org.apache.spark.sql.Observation;
 import org.apache.spark.sql.Row;
 import org.apache.spark.sql.SaveMode;
 import org.apache.spark.sql.SparkSession;
+import org.apache.spark.sql.functions;
 import org.apache.spark.storage.StorageLevel;
 import scala.concurrent.Await;
 import scala.concurrent.duration.Duration;
 
 /**
  * One run of {@code survey} or {@code run}: read, fit, (treat and write), then the summary,
- * correlations, plan and run record. Reads like an outline; each step lives in its package.
+ * correlations, plan and run record, all staged, reconciled, and published with the completion
+ * marker last. Reads like an outline; each step lives in its package.
  */
 public final class Job {
   private final SparkSession spark;
@@ -48,61 +51,97 @@ public final class Job {
     this.progress = progress;
   }
 
-  /** Runs the job and returns the run record that was written as run.json. */
+  /** Runs the job and returns the run record that was published as run.json. */
   public Map<String, Object> execute() {
     String runId = UUID.randomUUID().toString();
     Instant started = Instant.now();
-    InputTable table = TableReader.read(spark, args.input(), inputSettings());
-    String out = args.output().replaceAll("/+$", "");
-    checkOutput(table.path(), out);
-    Sluice.Fit fit = Sluice.fit(table.data(), settings, table.partitionColumns(), this::say);
+    // Column names are taken exactly as written: "Depot" and "depot" are two columns.
+    spark.conf().set("spark.sql.caseSensitive", "true");
+    InputTable table = TableReader.read(spark, args.input(), settings.input().withFormat(
+        args.format().isPresent() ? args.format() : settings.input().format()));
+    checkOutput(table.path(), args.output());
+    OutputLayout out = OutputLayout.prepare(
+        spark.sparkContext().hadoopConfiguration(), args.output(), runId, args.replace());
+    InputTable selected = where(table);
+    Sluice.Fit fit = Sluice.fit(selected.wellFormed(), settings, table.partitionColumns(), this::say);
     Map<String, Double> seconds = new LinkedHashMap<>(fit.seconds());
-    Map<String, Long> rows = new LinkedHashMap<>();
-    rows.put("read", fit.profile().rows());
+    Map<String, Object> rows = new LinkedHashMap<>();
+    long read = selected.malformedColumn().isPresent() ? selected.data().count() : fit.profile().rows();
+    rows.put("read", read);
     if (args.command().equals("run")) {
-      say("pass 3 of 3: treating and writing " + out + "/treated");
+      say("pass 3 of 3: treating and writing " + args.output() + "/treated");
       long t = System.nanoTime();
-      rows.putAll(writeTreated(table, fit, out));
+      rows.putAll(writeTreated(selected, fit, out, read));
       seconds.put("treat-and-write", (System.nanoTime() - t) / 1e9);
     }
     long t = System.nanoTime();
     writeTables(fit, out);
     seconds.put("summary", (System.nanoTime() - t) / 1e9);
     Map<String, Object> record = RunRecord.of(runId, args, table, rows, seconds, started, spark);
-    Outputs.json(spark, out + "/run.json", record);
+    Outputs.json(spark, out.staged("run.json"), record);
+    boolean partial = args.where().isPresent() && !table.partitionColumns().isEmpty();
+    out.publish(partial ? Set.of("treated", "quarantine") : Set.of(), RunRecord.marker(record));
     return record;
   }
 
-  private InputSettings inputSettings() {
-    InputSettings s = settings.input();
-    return args.format().isPresent() ? new InputSettings(args.format(), s.csvDelimiter(), s.csvSchema()) : s;
+  private InputTable where(InputTable table) {
+    if (args.where().isEmpty()) {
+      return table;
+    }
+    String predicate = args.where().get();
+    try {
+      Dataset<Row> filtered = table.data().filter(functions.expr(predicate));
+      filtered.schema();
+      return new InputTable(filtered, table.path(), table.format(), table.partitionColumns(),
+          table.malformedColumn());
+    } catch (Exception e) {
+      throw SluiceException.usage("Cannot use --where " + predicate + ": "
+          + TableReader.firstLineOf(e.getMessage()));
+    }
   }
 
-  /** Treated and quarantined rows from one read of the input; counts observed while writing. */
-  private Map<String, Long> writeTreated(InputTable table, Sluice.Fit fit, String out) {
-    Dataset<Row> data = table.data();
-    boolean split = TreatedTable.quarantines(fit.plan());
-    if (split) {
-      data = data.persist(StorageLevel.MEMORY_AND_DISK());
+  /** Treated and quarantined rows from one read of the input, counted, then cross-checked. */
+  private Map<String, Long> writeTreated(InputTable table, Sluice.Fit fit, OutputLayout out, long read) {
+    TreatmentSplit split = TreatmentSplit.of(
+        table.data(), table.wellFormed().schema(), table.malformedColumn(), fit.plan());
+    if (split.quarantined().isPresent() && table.malformedColumn().isEmpty()) {
+      split.base().persist(StorageLevel.MEMORY_AND_DISK());
     }
-    Observation treatedCount = new Observation("sluice-treated");
-    Dataset<Row> treated = Sluice.treat(data, fit.plan()).observe(treatedCount, count(lit(1)).as("rows"));
-    var writer = treated.write().mode(SaveMode.Overwrite);
-    if (!table.partitionColumns().isEmpty()) {
-      writer = writer.partitionBy(table.partitionColumns().toArray(new String[0]));
+    List<String> parts = table.partitionColumns();
+    long treated = write(split.treated(), out.staged("treated"), parts, "sluice-treated");
+    long held = 0;
+    if (split.quarantined().isPresent()) {
+      held = write(split.quarantined().get(), out.staged("quarantine"), parts, "sluice-quarantined");
+      split.base().unpersist();
     }
-    writer.parquet(out + "/treated");
+    if (read != treated + held) {
+      throw new SluiceException(SluiceException.Kind.INTERNAL, "Rows do not reconcile: read " + read
+          + ", treated " + treated + ", quarantined " + held + "; nothing was published");
+    }
     Map<String, Long> rows = new LinkedHashMap<>();
-    rows.put("treated", observed(treatedCount));
-    rows.put("quarantined", 0L);
-    if (split) {
-      Observation q = new Observation("sluice-quarantined");
-      Sluice.quarantine(data, fit.plan()).observe(q, count(lit(1)).as("rows"))
-          .write().mode(SaveMode.Overwrite).parquet(out + "/quarantine");
-      rows.put("quarantined", observed(q));
-      data.unpersist();
-    }
+    rows.put("treated", treated);
+    rows.put("quarantined", held);
     return rows;
+  }
+
+  /**
+   * Writes {@code data} and returns its row count, observed while writing and checked against
+   * the row counts in the written files' footers: a retried or speculative task can count twice.
+   */
+  private long write(Dataset<Row> data, String dir, List<String> parts, String name) {
+    Observation rows = new Observation(name);
+    DataFrameWriter<Row> w = data.observe(rows, count(lit(1)).as("rows")).write().mode(SaveMode.Overwrite);
+    if (!parts.isEmpty()) {
+      w = w.partitionBy(parts.toArray(new String[0]));
+    }
+    w.parquet(dir);
+    long observed = observed(rows);
+    long inFiles = observed == 0 && !parts.isEmpty() ? 0 : spark.read().parquet(dir).count();
+    if (observed != inFiles) {
+      throw new SluiceException(SluiceException.Kind.INTERNAL, "Row count of " + name + " is "
+          + observed + " while writing but " + inFiles + " in the written files; nothing was published");
+    }
+    return inFiles;
   }
 
   private static long observed(Observation o) {
@@ -115,14 +154,14 @@ public final class Job {
     }
   }
 
-  private void writeTables(Sluice.Fit fit, String out) {
+  private void writeTables(Sluice.Fit fit, OutputLayout out) {
     List<Map<String, Object>> summary = SummaryTable.rows(fit.profile(), fit.plan(), fit.stats());
-    Outputs.parquet(spark, out + "/summary", SummaryTable.COLUMNS, summary);
-    Outputs.csv(spark, out + "/summary.csv", SummaryTable.COLUMNS, summary);
+    Outputs.parquet(spark, out.staged("summary"), SummaryTable.COLUMNS, summary);
+    Outputs.csv(spark, out.staged("summary.csv"), SummaryTable.COLUMNS, summary);
     List<Map<String, Object>> pairs = CorrelationTable.rows(fit.plan().collinearity());
-    Outputs.parquet(spark, out + "/correlations", CorrelationTable.COLUMNS, pairs);
-    Outputs.csv(spark, out + "/correlations.csv", CorrelationTable.COLUMNS, pairs);
-    Outputs.json(spark, out + "/plan.json", fit.plan());
+    Outputs.parquet(spark, out.staged("correlations"), CorrelationTable.COLUMNS, pairs);
+    Outputs.csv(spark, out.staged("correlations.csv"), CorrelationTable.COLUMNS, pairs);
+    Outputs.json(spark, out.staged("plan.json"), fit.plan());
   }
 
   /** The output must not be, contain or lie inside the input: the input is never written to. */
@@ -147,5 +186,4 @@ public final class Job {
   private void say(String line) {
     progress.println("sluice: " + line);
   }
-
 }

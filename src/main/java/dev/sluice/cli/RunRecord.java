@@ -13,7 +13,7 @@ import org.apache.spark.sql.SparkSession;
 final class RunRecord {
   private RunRecord() {}
 
-  static Map<String, Object> of(String runId, Arguments args, InputTable table, Map<String, Long> rows,
+  static Map<String, Object> of(String runId, Arguments args, InputTable table, Map<String, Object> rows,
       Map<String, Double> seconds, Instant started, SparkSession spark) {
     Map<String, Object> r = new LinkedHashMap<>();
     r.put("run_id", runId);
@@ -25,6 +25,7 @@ final class RunRecord {
     r.put("input", input);
     r.put("output", args.output());
     r.put("config_file", args.config().orElse(null));
+    r.put("where", args.where().orElse(null));
     r.put("overrides", args.sets());
     r.put("rows", withReconciliation(rows));
     Map<String, Double> rounded = new LinkedHashMap<>();
@@ -41,12 +42,27 @@ final class RunRecord {
     return r;
   }
 
-  private static Map<String, Object> withReconciliation(Map<String, Long> rows) {
+  private static Map<String, Object> withReconciliation(Map<String, Object> rows) {
     Map<String, Object> out = new LinkedHashMap<>(rows);
     if (rows.containsKey("treated")) {
-      out.put("reconciled", rows.get("read") == rows.get("treated") + rows.get("quarantined"));
+      long read = (Long) rows.get("read");
+      out.put("reconciled", read == (Long) rows.get("treated") + (Long) rows.get("quarantined"));
     }
     return out;
+  }
+
+  /** The completion marker: which run finished, and its row counts. */
+  static String marker(Map<String, Object> record) {
+    Map<String, Object> m = new LinkedHashMap<>();
+    m.put("run_id", record.get("run_id"));
+    m.put("command", record.get("command"));
+    m.put("rows", record.get("rows"));
+    m.put("finished", record.get("finished"));
+    try {
+      return dev.sluice.report.Outputs.JSON.writeValueAsString(m);
+    } catch (com.fasterxml.jackson.core.JsonProcessingException e) {
+      throw new IllegalStateException(e);
+    }
   }
 
   static String version() {

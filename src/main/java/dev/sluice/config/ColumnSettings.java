@@ -8,12 +8,33 @@ import java.util.OptionalDouble;
  *
  * @param validMin values below are incorrect entries (empty: no lower bound)
  * @param validMax values above are incorrect entries (empty: no upper bound)
+ * @param invalidAction what happens to an incorrect entry
  */
 public record ColumnSettings(
     String name,
     Role role,
     OptionalDouble validMin,
     OptionalDouble validMax,
+    InvalidAction invalidAction,
     OutlierSettings outliers,
     MissingSettings missing,
-    ScalingMethod scaling) {}
+    ScalingMethod scaling) {
+
+  /** Settings whose incorrect entries become missing (the default). */
+  public ColumnSettings(
+      String name,
+      Role role,
+      OptionalDouble validMin,
+      OptionalDouble validMax,
+      OutlierSettings outliers,
+      MissingSettings missing,
+      ScalingMethod scaling) {
+    this(name, role, validMin, validMax, InvalidAction.SET_MISSING, outliers, missing, scaling);
+  }
+
+  /** The same settings under another column name. */
+  public ColumnSettings named(String other) {
+    return new ColumnSettings(
+        other, role, validMin, validMax, invalidAction, outliers, missing, scaling);
+  }
+}

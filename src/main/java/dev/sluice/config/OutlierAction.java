@@ -1,6 +1,6 @@
 package dev.sluice.config;
 
-/** What happens to a value beyond the fences. Config values: cap, set-missing, flag, keep. */
+/** What happens to a value beyond the fences. Config values: cap, set-missing, flag, keep, quarantine. */
 public enum OutlierAction {
   /** Replace by the fence it crossed (winsorize). */
   CAP,
@@ -9,5 +9,7 @@ public enum OutlierAction {
   /** Keep the value and mark the row in an added boolean column. */
   FLAG,
   /** Keep the value; only count it. */
-  KEEP
+  KEEP,
+  /** Send the whole row to quarantine with its original values. */
+  QUARANTINE
 }

@@ -26,13 +26,6 @@ public record Settings(
     if (own != null) {
       return own;
     }
-    return new ColumnSettings(
-        name,
-        defaults.role(),
-        defaults.validMin(),
-        defaults.validMax(),
-        defaults.outliers(),
-        defaults.missing(),
-        defaults.scaling());
+    return defaults.named(name);
   }
 }

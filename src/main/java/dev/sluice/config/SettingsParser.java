@@ -84,7 +84,8 @@ final class SettingsParser {
       throw r.invalid("input.csv.delimiter", "expected at least one character");
     }
     String schema = r.text("input.csv.schema").strip();
-    return new InputSettings(nonEmpty(format), delimiter, nonEmpty(schema));
+    boolean header = r.flag("input.csv.header");
+    return new InputSettings(nonEmpty(format), delimiter, nonEmpty(schema), header);
   }
 
   private static Optional<String> nonEmpty(String text) {
@@ -184,8 +185,10 @@ final class SettingsParser {
     if (validMin.isPresent() && validMax.isPresent()) {
       r.requireOrdered("valid-min", validMin.getAsDouble(), "valid-max", validMax.getAsDouble());
     }
+    InvalidAction invalid = r.choice("invalid-action", InvalidAction.class);
     ScalingMethod scaling = r.choice("scaling", ScalingMethod.class);
-    return new ColumnSettings(name, role, validMin, validMax, outliers(r), missing(r), scaling);
+    return new ColumnSettings(
+        name, role, validMin, validMax, invalid, outliers(r), missing(r), scaling);
   }
 
   private static OutlierSettings outliers(ValueReader r) {

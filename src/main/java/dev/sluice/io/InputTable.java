@@ -1,11 +1,37 @@
 package dev.sluice.io;
 
 import java.util.List;
+import java.util.Optional;
 import org.apache.spark.sql.Dataset;
 import org.apache.spark.sql.Row;
 
 /**
  * A table as read: the data, where it came from, and the partition columns found in its directory
  * layout (kept as partitions when the treated table is written).
+ *
+ * @param data every row read; for CSV input it also holds {@link #MALFORMED_COLUMN}, the raw line
+ *     of each row that could not be parsed (null for well-formed rows)
+ * @param malformedColumn the name of that column, when present
  */
-public record InputTable(Dataset<Row> data, String path, String format, List<String> partitionColumns) {}
+public record InputTable(
+    Dataset<Row> data,
+    String path,
+    String format,
+    List<String> partitionColumns,
+    Optional<String> malformedColumn) {
+
+  /** Column holding the raw text of a CSV line that could not be parsed. */
+  public static final String MALFORMED_COLUMN = "_sluice_malformed_line";
+
+  public InputTable(Dataset<Row> data, String path, String format, List<String> partitionColumns) {
+    this(data, path, format, partitionColumns, Optional.empty());
+  }
+
+  /** The well-formed rows without the malformed-line column: what is profiled and treated. */
+  public Dataset<Row> wellFormed() {
+    if (malformedColumn.isEmpty()) {
+      return data;
+    }
+    return data.filter(Names.col(malformedColumn.get()).isNull()).drop(malformedColumn.get());
+  }
+}

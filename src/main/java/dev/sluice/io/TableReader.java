@@ -12,7 +12,6 @@ import org.apache.hadoop.conf.Configuration;
 import org.apache.hadoop.fs.FileStatus;
 import org.apache.hadoop.fs.FileSystem;
 import org.apache.hadoop.fs.Path;
-import org.apache.spark.sql.DataFrameReader;
 import org.apache.spark.sql.Dataset;
 import org.apache.spark.sql.Row;
 import org.apache.spark.sql.SparkSession;
@@ -29,10 +28,14 @@ public final class TableReader {
   public static InputTable read(SparkSession spark, String path, InputSettings settings) {
     FileStatus status = statusOf(spark, path);
     String format = formatOf(path, settings.format());
-    Dataset<Row> data;
     try {
-      data = reader(spark, format, settings).load(path);
+      if (format.equals("csv")) {
+        return CsvInput.read(spark, path, settings);
+      }
+      Dataset<Row> data = spark.read().format(format).load(path);
       data.schema(); // resolve now, so a bad table fails here with its path
+      List<String> partitions = status.isDirectory() ? partitionColumns(spark, status) : List.of();
+      return new InputTable(data, path, format, partitions);
     } catch (SluiceException e) {
       throw e;
     } catch (Exception e) {
@@ -40,8 +43,6 @@ public final class TableReader {
       throw SluiceException.input(
           "Cannot read " + path + " as " + format + ": " + firstLine(e.getMessage()), e);
     }
-    List<String> partitions = status.isDirectory() ? partitionColumns(spark, status) : List.of();
-    return new InputTable(data, path, format, partitions);
   }
 
   /** The format: the configured one, else the file extension, else Parquet. */
@@ -65,23 +66,6 @@ public final class TableReader {
       return "orc";
     }
     return "parquet";
-  }
-
-  private static DataFrameReader reader(SparkSession spark, String format, InputSettings s) {
-    DataFrameReader r = spark.read().format(format);
-    if (format.equals("csv")) {
-      r = r.option("header", "true")
-          .option("sep", s.csvDelimiter())
-          .option("nullValue", "")
-          .option("mode", "PERMISSIVE")
-          .option("enforceSchema", "false");
-      if (s.csvSchema().isPresent() && !s.csvSchema().get().isBlank()) {
-        r = r.schema(s.csvSchema().get());
-      } else {
-        r = r.option("inferSchema", "true");
-      }
-    }
-    return r;
   }
 
   private static FileStatus statusOf(SparkSession spark, String path) {
@@ -137,6 +121,11 @@ public final class TableReader {
 
   static Configuration hadoopConf(SparkSession spark) {
     return spark.sparkContext().hadoopConfiguration();
+  }
+
+  /** The first line of an exception message, for one-line errors. */
+  public static String firstLineOf(String message) {
+    return firstLine(message);
   }
 
   static String firstLine(String message) {

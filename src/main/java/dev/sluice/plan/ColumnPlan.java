@@ -5,7 +5,8 @@ package dev.sluice.plan;
  * validity bounds, outliers, missing values, scaling.
  *
  * @param treated the column's values are rewritten (as DOUBLE for numeric columns)
- * @param validMin values below are incorrect entries and become missing (null: no bound)
+ * @param validMin values below are incorrect entries (null: no bound)
+ * @param invalidAction set-missing or quarantine: what happens to an incorrect entry
  * @param dropReason why the column is not in the treated output (null: it is)
  */
 public record ColumnPlan(
@@ -16,6 +17,7 @@ public record ColumnPlan(
     boolean treated,
     Double validMin,
     Double validMax,
+    String invalidAction,
     OutlierPlan outliers,
     MissingPlan missing,
     ScalingPlan scaling,
@@ -26,7 +28,7 @@ public record ColumnPlan(
   }
 
   public ColumnPlan dropped(String reason) {
-    return new ColumnPlan(
-        name, type, kind, role, treated, validMin, validMax, outliers, missing, scaling, reason);
+    return new ColumnPlan(name, type, kind, role, treated, validMin, validMax, invalidAction,
+        outliers, missing, scaling, reason);
   }
 }

@@ -40,7 +40,10 @@ public final class Treatments {
     return coalesce(out, lit(false));
   }
 
-  /** Step 3: the valid value after the outlier action (cap or set missing; flag and keep keep it). */
+  /**
+   * Step 3: the valid value after the outlier action: capped, or missing (set-missing and
+   * quarantine); flag and keep leave it as it is.
+   */
   public static Column afterOutliers(String name, Double validMin, Double validMax, OutlierPlan o) {
     Column v = valid(name, validMin, validMax);
     switch (o.action()) {
@@ -54,6 +57,8 @@ public final class Treatments {
         }
         return capped;
       case "set-missing":
+      case "quarantine":
+        // A quarantined row leaves the treated table: its value counts as missing here.
         return when(beyond(v, o), lit(null).cast("double")).otherwise(v);
       default:
         return v;

@@ -111,7 +111,7 @@ class ValidationTest {
     rejection("sluice.defaults.outliers.action = clip")
         .isEqualTo(
             "Cannot set sluice.defaults.outliers.action to \"clip\":"
-                + " expected one of cap, set-missing, flag, keep");
+                + " expected one of cap, set-missing, flag, keep, quarantine");
     rejection("sluice.defaults.scaling = MIN_MAX")
         .isEqualTo(
             "Cannot set sluice.defaults.scaling to \"MIN_MAX\":"
