@@ -5,6 +5,7 @@ import dev.sluice.config.Settings;
 import dev.sluice.profile.ColumnProfile;
 import dev.sluice.profile.TableProfile;
 import dev.sluice.stats.Collinearity;
+import dev.sluice.stats.Published;
 import dev.sluice.stats.QuantileGrid;
 import java.util.ArrayList;
 import java.util.List;
@@ -37,8 +38,8 @@ final class CollinearityPlanner {
       fills[i] = fill == null ? Double.NaN : fill;
       rankFills[i] = fill == null ? Double.NaN : rankOf(profile, cp, fill);
     }
-    double[][] pearson = stats.pearson().correlation(fills);
-    double[][] spearman = stats.spearman().correlation(rankFills);
+    double[][] pearson = rounded(stats.pearson().correlation(fills));
+    double[][] spearman = rounded(stats.spearman().correlation(rankFills));
     List<Integer> keep = new ArrayList<>();
     for (int i = 0; i < all.size(); i++) {
       if (find(plans, all.get(i)).kept() && !Double.isNaN(pearson[i][i])) {
@@ -68,7 +69,7 @@ final class CollinearityPlanner {
     List<String> drops = Collinearity.suggestDrops(names, r, cs.vifLimit());
     List<Double> vifs = new ArrayList<>();
     for (double v : vif.vif()) {
-      vifs.add(v);
+      vifs.add(Published.round(v));
     }
     return new CollinearityFindings(
         vif.singular() ? "computed: correlation matrix is singular" : "computed",
@@ -92,6 +93,18 @@ final class CollinearityPlanner {
 
   static double capUpper(OutlierPlan o) {
     return o.action().equals("cap") && o.upper() != null ? o.upper() : Double.POSITIVE_INFINITY;
+  }
+
+  /** Correlations at published precision: the same whatever order Spark merged the sums in. */
+  private static double[][] rounded(double[][] m) {
+    double[][] out = new double[m.length][];
+    for (int i = 0; i < m.length; i++) {
+      out[i] = new double[m[i].length];
+      for (int j = 0; j < m[i].length; j++) {
+        out[i][j] = Published.round(m[i][j]);
+      }
+    }
+    return out;
   }
 
   private static ColumnPlan find(List<ColumnPlan> plans, String name) {

@@ -4,6 +4,7 @@ import dev.sluice.config.ColumnSettings;
 import dev.sluice.config.OutlierSettings;
 import dev.sluice.profile.ColumnProfile;
 import dev.sluice.stats.Fences;
+import dev.sluice.stats.Published;
 import java.util.Locale;
 
 /**
@@ -57,7 +58,8 @@ final class OutlierPlanner {
         chosen == null ? "keep" : kebab(o.action().name()),
         chosen == null ? null : finiteOrNull(chosen.lower()),
         chosen == null ? null : finiteOrNull(chosen.upper()),
-        inner.lower(), inner.upper(), outer.lower(), outer.upper(),
+        finiteOrNull(inner.lower()), finiteOrNull(inner.upper()),
+        finiteOrNull(outer.lower()), finiteOrNull(outer.upper()),
         chosen == null ? why + ": no limits applied" : why + sideNote(o));
   }
 
@@ -72,8 +74,9 @@ final class OutlierPlanner {
     }
   }
 
+  /** A finite limit at published precision; null for an infinite (absent) one. */
   static Double finiteOrNull(double x) {
-    return Double.isFinite(x) ? x : null;
+    return Double.isFinite(x) ? Published.round(x) : null;
   }
 
   static String lower(String enumName) {

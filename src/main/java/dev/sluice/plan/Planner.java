@@ -13,6 +13,7 @@ import dev.sluice.profile.ColumnKind;
 import dev.sluice.profile.ColumnProfile;
 import dev.sluice.profile.TableProfile;
 import dev.sluice.stats.Moments;
+import dev.sluice.stats.Published;
 import dev.sluice.stats.Scaling;
 import java.util.ArrayList;
 import java.util.LinkedHashMap;
@@ -117,7 +118,7 @@ public final class Planner {
       return new MissingPlan(false, strategy, null, null, false, false,
           "no values left to take the " + strategy + " from: missing values left missing");
     }
-    return new MissingPlan(false, strategy, fill, null, m.indicator(), false,
+    return new MissingPlan(false, strategy, Published.round(fill), null, m.indicator(), false,
         strategy + " of the values after the outlier step");
   }
 
@@ -186,6 +187,7 @@ public final class Planner {
     String why = sc.zeroSpread()
         ? "zero spread: values are only centred (a constant column becomes 0)"
         : method + " scaling fitted after imputation";
-    return new ScalingPlan(method, sc.centre(), sc.scale(), sc.zeroSpread(), why);
+    return new ScalingPlan(method, Published.round(sc.centre()), Published.round(sc.scale()),
+        sc.zeroSpread(), why);
   }
 }

@@ -8,6 +8,7 @@ import dev.sluice.plan.TreatedStats;
 import dev.sluice.profile.ColumnProfile;
 import dev.sluice.profile.TableProfile;
 import dev.sluice.stats.Moments;
+import dev.sluice.stats.Published;
 import java.util.ArrayList;
 import java.util.LinkedHashMap;
 import java.util.List;
@@ -91,7 +92,9 @@ public final class SummaryTable {
     for (ColumnProfile c : profile.columns()) {
       ColumnPlan cp = plan.column(c.name()).orElseThrow();
       TreatedStats.ColumnStats t = stats.columns().get(c.name());
-      out.add(row(c, cp, t, plan));
+      Map<String, Object> r = row(c, cp, t, plan);
+      r.replaceAll((k, v) -> v instanceof Double d ? Published.round(d) : v);
+      out.add(r);
     }
     return out;
   }
