@@ -1,0 +1,190 @@
+package dev.sluice.bench;
+
+import static org.apache.spark.sql.functions.count_if;
+import static org.apache.spark.sql.functions.lit;
+import static org.apache.spark.sql.functions.sum;
+
+import dev.sluice.cli.Main;
+import dev.sluice.demo.ColdStorageTable;
+import dev.sluice.io.Names;
+import dev.sluice.report.Outputs;
+import java.io.IOException;
+import java.io.PrintStream;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.util.ArrayList;
+import java.util.Arrays;
+import java.util.LinkedHashMap;
+import java.util.List;
+import java.util.Map;
+import org.apache.spark.sql.Column;
+import org.apache.spark.sql.Dataset;
+import org.apache.spark.sql.Row;
+import org.apache.spark.sql.SaveMode;
+import org.apache.spark.sql.SparkSession;
+
+/**
+ * Side-by-side timings in one Spark session, interleaved over repetitions: a plain scan that sums
+ * every column, a plain Parquet copy, the hand-written MLlib pipeline, {@code survey} and {@code
+ * run}. Prints the median of each and the ratios, plus the largest rank error of the fence
+ * quartiles against the data's exact ranks, and writes them as JSON.
+ *
+ * <pre>
+ * Benchmark [--rows N] [--columns P] [--reps R] [--data DIR] [--out FILE] [--quick]
+ * </pre>
+ */
+public final class Benchmark {
+  private Benchmark() {}
+
+  record Options(long rows, int columns, int reps, Path data, Path out, boolean quick) {
+    static Options parse(String[] args) {
+      Map<String, String> m = new LinkedHashMap<>();
+      boolean quick = false;
+      for (int i = 0; i < args.length; i++) {
+        if (args[i].equals("--quick")) {
+          quick = true;
+        } else if (i + 1 < args.length) {
+          m.put(args[i], args[++i]);
+        } else {
+          throw new IllegalArgumentException("Option " + args[i] + " needs a value");
+        }
+      }
+      long rows = Long.parseLong(m.getOrDefault("--rows", quick ? "20000" : "10000000"));
+      int cols = Integer.parseInt(m.getOrDefault("--columns", "10"));
+      int reps = Integer.parseInt(m.getOrDefault("--reps", quick ? "1" : "3"));
+      Path data = Path.of(m.getOrDefault("--data", "target/bench-data"));
+      Path out = Path.of(m.getOrDefault("--out", "target/bench/results.json"));
+      return new Options(rows, cols, reps, data, out, quick);
+    }
+  }
+
+  public static void main(String[] args) throws IOException {
+    Options o = Options.parse(args);
+    SparkSession spark = SparkSession.builder().master(System.getProperty("spark.master", "local[*]"))
+        .appName("sluice-bench").config("spark.ui.enabled", "false")
+        .config("spark.ui.showConsoleProgress", "false").getOrCreate();
+    Path table = ensureTable(spark, o);
+    Path work = o.out().getParent().resolve("work");
+    Map<String, List<Double>> times = new LinkedHashMap<>();
+    for (String name : List.of("scan", "copy", "peer", "survey", "run")) {
+      times.put(name, new ArrayList<>());
+    }
+    Dataset<Row> input = spark.read().parquet(table.toString());
+    List<String> numeric = numericColumns(input);
+    for (int rep = 0; rep < o.reps(); rep++) {
+      times.get("scan").add(time(() -> scan(input, numeric)));
+      times.get("copy").add(time(() -> input.write().mode(SaveMode.Overwrite).parquet(work.resolve("copy").toString())));
+      times.get("peer").add(time(() -> PeerPipeline.run(spark.read().parquet(table.toString()), numeric,
+          work.resolve("peer").toString())));
+      times.get("survey").add(time(() -> sluice("survey", table, work.resolve("survey"))));
+      times.get("run").add(time(() -> sluice("run", table, work.resolve("run"))));
+      System.out.println("bench: repetition " + (rep + 1) + " of " + o.reps() + ": " + last(times));
+    }
+    Map<String, Object> result = summarise(o, times, rankError(spark, input, work.resolve("run")));
+    Files.createDirectories(o.out().getParent());
+    Outputs.JSON.writeValue(o.out().toFile(), result);
+    System.out.println(Outputs.JSON.writeValueAsString(result));
+    spark.stop();
+  }
+
+  private static Path ensureTable(SparkSession spark, Options o) {
+    Path dir = o.data().resolve("rows" + o.rows() + "-cols" + o.columns());
+    if (!Files.exists(dir.resolve("_SUCCESS"))) {
+      System.out.println("bench: generating " + dir + " (once; later runs reuse it)");
+      ColdStorageTable.generateWide(spark, o.rows(), o.columns(), 20261201L)
+          .write().mode(SaveMode.Overwrite).parquet(dir.toString());
+    }
+    return dir;
+  }
+
+  private static List<String> numericColumns(Dataset<Row> input) {
+    return Arrays.stream(input.schema().fields())
+        .filter(f -> f.dataType() instanceof org.apache.spark.sql.types.NumericType)
+        .map(f -> f.name()).toList();
+  }
+
+  private static void scan(Dataset<Row> input, List<String> numeric) {
+    List<Column> sums = new ArrayList<>();
+    numeric.forEach(c -> sums.add(sum(Names.col(c))));
+    input.agg(sums.get(0), sums.subList(1, sums.size()).toArray(new Column[0])).first();
+  }
+
+  private static void sluice(String command, Path table, Path out) {
+    int code = Main.run(new String[] {command, "--input", table.toString(), "--output", out.toString(),
+        "--replace"}, new PrintStream(PrintStream.nullOutputStream()), new PrintStream(PrintStream.nullOutputStream()));
+    if (code != 0) {
+      throw new IllegalStateException("sluice " + command + " failed with exit code " + code);
+    }
+  }
+
+  /**
+   * The largest distance, over the numeric columns, between the probability asked for (0.25,
+   * 0.75) and the exact normalized rank range of the value returned, counted in the data.
+   */
+  static double rankError(SparkSession spark, Dataset<Row> input, Path runOut) {
+    Dataset<Row> summary = spark.read().parquet(runOut.resolve("summary").toString());
+    List<Column> aggs = new ArrayList<>();
+    List<double[]> asked = new ArrayList<>();
+    for (Row r : summary.filter("q1 IS NOT NULL").select("column", "q1", "q3", "usable").collectAsList()) {
+      String c = r.getString(0);
+      for (int k = 0; k < 2; k++) {
+        double q = r.getDouble(1 + k);
+        aggs.add(count_if(Names.col(c).lt(lit(q))));
+        aggs.add(count_if(Names.col(c).leq(lit(q))));
+        asked.add(new double[] {k == 0 ? 0.25 : 0.75, r.getLong(3)});
+      }
+    }
+    if (aggs.isEmpty()) {
+      return Double.NaN;
+    }
+    Row counts = input.agg(aggs.get(0), aggs.subList(1, aggs.size()).toArray(new Column[0])).first();
+    double worst = 0;
+    for (int i = 0; i < asked.size(); i++) {
+      double n = asked.get(i)[1];
+      double below = counts.getLong(2 * i) / n;
+      double atOrBelow = counts.getLong(2 * i + 1) / n;
+      double p = asked.get(i)[0];
+      double err = p < below ? below - p : p > atOrBelow ? p - atOrBelow : 0.0;
+      worst = Math.max(worst, err);
+    }
+    return worst;
+  }
+
+  private static Map<String, Object> summarise(Options o, Map<String, List<Double>> times, double rankError) {
+    Map<String, Object> r = new LinkedHashMap<>();
+    r.put("rows", o.rows());
+    r.put("numeric_columns", o.columns());
+    r.put("repetitions", o.reps());
+    r.put("cores", Runtime.getRuntime().availableProcessors());
+    r.put("max_heap_mb", Runtime.getRuntime().maxMemory() / (1024 * 1024));
+    Map<String, Double> medians = new LinkedHashMap<>();
+    times.forEach((k, v) -> medians.put(k, median(v)));
+    r.put("median_seconds", medians);
+    Map<String, Double> ratios = new LinkedHashMap<>();
+    ratios.put("run_over_copy", medians.get("run") / medians.get("copy"));
+    ratios.put("survey_over_scan", medians.get("survey") / medians.get("scan"));
+    ratios.put("peer_over_run", medians.get("peer") / medians.get("run"));
+    r.put("ratios", ratios);
+    r.put("largest_fence_quartile_rank_error", rankError);
+    r.put("seconds", times);
+    return r;
+  }
+
+  private static double median(List<Double> v) {
+    double[] s = v.stream().mapToDouble(Double::doubleValue).sorted().toArray();
+    return s.length % 2 == 1 ? s[s.length / 2] : (s[s.length / 2 - 1] + s[s.length / 2]) / 2;
+  }
+
+  private static Map<String, Double> last(Map<String, List<Double>> times) {
+    Map<String, Double> out = new LinkedHashMap<>();
+    times.forEach((k, v) -> out.put(k, Math.round(v.get(v.size() - 1) * 100) / 100.0));
+    return out;
+  }
+
+  private static double time(Runnable r) {
+    long t = System.nanoTime();
+    r.run();
+    return (System.nanoTime() - t) / 1e9;
+  }
+
+}
