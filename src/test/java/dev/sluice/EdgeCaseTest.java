@@ -127,4 +127,30 @@ class EdgeCaseTest {
     assertThat(f.profile().column("i").orElseThrow().q1()).isEqualTo(2.5);
     assertThat(Sluice.treat(data, f.plan()).schema().apply("s").dataType()).isEqualTo(DataTypes.DoubleType);
   }
+
+  /**
+   * Values near Double.MAX_VALUE: a plain sum of these five overflows and their squares are
+   * infinite. Reference figures computed exactly with java.math.BigDecimal: mean 1.5e308,
+   * sample standard deviation sqrt(0.1e616 / 4) = 1.5811388300841898e307. y = x / 2 exactly, so
+   * the Pearson correlation of x and y is 1 by definition.
+   */
+  @Test
+  void valuesNearDoubleMaxKeepFiniteCorrectMomentsAndCorrelation(SparkSession spark) {
+    double[] x = {1.7e308, 1.6e308, 1.5e308, 1.4e308, 1.3e308};
+    double[][] rows = new double[x.length][];
+    for (int i = 0; i < x.length; i++) {
+      rows[i] = new double[] {x[i], x[i] / 2};
+    }
+    Dataset<Row> data = dev.sluice.testing.Fixtures.doubleTable(spark, List.of("x", "y"), rows);
+    Sluice.Fit f = fit(data, "defaults.scaling=standard", "defaults.outliers.method=none");
+    var p = f.profile().column("x").orElseThrow();
+    assertThat(p.mean()).isCloseTo(1.5e308, org.assertj.core.data.Percentage.withPercentage(1e-10));
+    assertThat(p.stddev()).isCloseTo(1.5811388300841898e307, org.assertj.core.data.Percentage.withPercentage(1e-10));
+    assertThat(f.plan().collinearity().pearson().get(0).get(1)).isEqualTo(1.0);
+    var scaling = f.plan().column("x").orElseThrow().scaling();
+    assertThat(scaling.centre()).isCloseTo(1.5e308, org.assertj.core.data.Percentage.withPercentage(1e-10));
+    // z of the largest value: 0.2e308 / 1.5811388300841898e307 = 1.2649110640673518 (BigDecimal).
+    List<Object> z = column(Sluice.treat(data, f.plan()).collectAsList(), "x");
+    assertThat((Double) z.get(0)).isCloseTo(1.2649110640673518, org.assertj.core.data.Offset.offset(1e-9));
+  }
 }

@@ -12,7 +12,7 @@ import dev.sluice.config.Settings;
 import dev.sluice.profile.ColumnKind;
 import dev.sluice.profile.ColumnProfile;
 import dev.sluice.profile.TableProfile;
-import dev.sluice.stats.Moments;
+import dev.sluice.stats.FilledMoments;
 import dev.sluice.stats.Published;
 import dev.sluice.stats.Scaling;
 import java.util.ArrayList;
@@ -159,10 +159,8 @@ public final class Planner {
    */
   private static ScalingPlan scaling(
       ColumnSettings s, TreatedStats.ColumnStats t, MissingPlan missing, long rows) {
-    Moments m = Moments.of(t.present(), t.mean(), t.stddev(), t.min(), t.max());
-    if (missing.fillNumber() != null && rows > t.present()) {
-      m = m.withPointMass(missing.fillNumber(), rows - t.present());
-    }
+    FilledMoments m = FilledMoments.of(
+        t.present(), t.mean(), t.stddev(), t.min(), t.max(), missing.fillNumber(), rows - t.present());
     String method = kebab(s.scaling().name());
     Scaling sc;
     switch (s.scaling()) {

@@ -1,6 +1,7 @@
 package dev.sluice.profile;
 
 import dev.sluice.config.Role;
+import dev.sluice.stats.PowerScale;
 import dev.sluice.stats.QuantileGrid;
 
 /**
@@ -62,6 +63,21 @@ public record ColumnProfile(
   /** A numeric column whose values the job changes. */
   public boolean treated() {
     return measured() && (role == Role.TREAT || role == Role.REQUIRED);
+  }
+
+  /**
+   * The power-of-two factor by which this column's values are scaled before their moments are
+   * summed: 1 for ordinary magnitudes (see {@link PowerScale}).
+   */
+  public double momentScale() {
+    return PowerScale.forMagnitude(Math.max(Math.abs(min), Math.abs(max)));
+  }
+
+  public ColumnProfile withMoments(double newMean, double newStddev) {
+    return new ColumnProfile(
+        name, type, kind, role, rows, nulls, nan, infinite, invalid, usable, min, max, newMean,
+        newStddev, q1, median, q3, grid, quantileMethod, rankError, mad, distinct, topValue,
+        topCount, minText, maxText);
   }
 
   public ColumnProfile withMad(double newMad) {

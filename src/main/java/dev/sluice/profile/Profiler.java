@@ -8,7 +8,6 @@ import static org.apache.spark.sql.functions.call_function;
 import static org.apache.spark.sql.functions.count;
 import static org.apache.spark.sql.functions.count_if;
 import static org.apache.spark.sql.functions.lit;
-import org.apache.spark.sql.functions;
 import static org.apache.spark.sql.functions.stddev_samp;
 
 import dev.sluice.config.ColumnSettings;
@@ -16,21 +15,27 @@ import dev.sluice.config.OutlierMethod;
 import dev.sluice.config.Role;
 import dev.sluice.config.Settings;
 import dev.sluice.io.Names;
+import dev.sluice.stats.PowerScale;
 import dev.sluice.stats.QuantileGrid;
 import java.util.ArrayList;
+import java.util.Arrays;
 import java.util.List;
 import java.util.Map;
 import org.apache.spark.sql.Column;
 import org.apache.spark.sql.Dataset;
 import org.apache.spark.sql.Row;
+import org.apache.spark.sql.functions;
 import org.apache.spark.sql.types.StructField;
 
 /**
  * Pass 1: one aggregate over the table computes every column's counts, moments and quantiles.
  *
  * <p>A row count runs first (served from file footers for Parquet and ORC) to choose between
- * exact and approximate quantiles. Columns using the MAD method need the median before the MAD
- * can be taken, so they cost one more aggregate, shared by all such columns.
+ * exact and approximate quantiles. Two kinds of column need a figure from that aggregate before
+ * they can be finished, and cost one more aggregate, shared by all of them: columns using the MAD
+ * method (the MAD needs the median), and columns of very large magnitude, whose mean and standard
+ * deviation are taken again on values scaled by a power of two (see {@link PowerScale}) because
+ * their sums of squares overflow.
  */
 public final class Profiler {
   private Profiler() {}
@@ -52,7 +57,7 @@ public final class Profiler {
     for (Slots s : slots) {
       columns.add(s.read(result, counted, spec));
     }
-    columns = withMad(data, columns, settings, spec);
+    columns = finish(data, columns, settings, spec);
     return new TableProfile(counted, List.copyOf(columns), spec.exact());
   }
 
@@ -61,19 +66,34 @@ public final class Profiler {
     return new QuantileSpec(rows <= q.exactMaxCount(), q.relativeError(), q.rankGridSize());
   }
 
-  /** The MAD of every column whose outlier method is mad, in one extra aggregate. */
-  private static List<ColumnProfile> withMad(
+  /**
+   * One extra aggregate, only when some column needs it: the MAD of every column whose outlier
+   * method is mad, and the rescaled mean and standard deviation of every column of very large
+   * magnitude.
+   */
+  private static List<ColumnProfile> finish(
       Dataset<Row> data, List<ColumnProfile> columns, Settings settings, QuantileSpec spec) {
     Aggregates aggs = new Aggregates();
-    int[] at = new int[columns.size()];
+    int[] madAt = new int[columns.size()];
+    int[] meanAt = new int[columns.size()];
+    Arrays.fill(madAt, -1);
+    Arrays.fill(meanAt, -1);
     for (int i = 0; i < columns.size(); i++) {
       ColumnProfile c = columns.get(i);
+      if (!c.measured() || c.usable() == 0) {
+        continue;
+      }
       ColumnSettings cs = settings.column(c.name());
-      at[i] = -1;
-      if (c.treated() && cs.outliers().method() == OutlierMethod.MAD && c.usable() > 0) {
-        Column v = ValueExprs.usable(asDouble(c.name()), cs.validMin(), cs.validMax());
+      Column v = ValueExprs.usable(asDouble(c.name()), cs.validMin(), cs.validMax());
+      if (c.treated() && cs.outliers().method() == OutlierMethod.MAD) {
         Column deviation = aggs.input(abs(v.minus(lit(c.median()))));
-        at[i] = aggs.add(spec.of(deviation, new double[] {0.5}));
+        madAt[i] = aggs.add(spec.of(deviation, new double[] {0.5}));
+      }
+      double f = c.momentScale();
+      if (f != 1.0) {
+        Column scaled = aggs.input(v.multiply(lit(f)));
+        meanAt[i] = aggs.add(avg(scaled));
+        aggs.add(stddev_samp(scaled));
       }
     }
     if (aggs.isEmpty()) {
@@ -81,11 +101,19 @@ public final class Profiler {
     }
     Row r = aggs.run(data);
     List<ColumnProfile> out = new ArrayList<>(columns);
-    for (int i = 0; i < at.length; i++) {
-      if (at[i] >= 0) {
-        double[] mad = Aggregates.doublesAt(r, at[i]);
-        out.set(i, columns.get(i).withMad(mad == null ? Double.NaN : mad[0]));
+    for (int i = 0; i < columns.size(); i++) {
+      ColumnProfile c = out.get(i);
+      if (madAt[i] >= 0) {
+        double[] mad = Aggregates.doublesAt(r, madAt[i]);
+        c = c.withMad(mad == null ? Double.NaN : mad[0]);
       }
+      if (meanAt[i] >= 0) {
+        double f = c.momentScale();
+        c = c.withMoments(
+            PowerScale.unscale(Aggregates.doubleAt(r, meanAt[i]), f),
+            PowerScale.unscale(Aggregates.doubleAt(r, meanAt[i] + 1), f));
+      }
+      out.set(i, c);
     }
     return out;
   }

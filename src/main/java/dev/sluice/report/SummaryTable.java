@@ -7,7 +7,7 @@ import dev.sluice.plan.Plan;
 import dev.sluice.plan.TreatedStats;
 import dev.sluice.profile.ColumnProfile;
 import dev.sluice.profile.TableProfile;
-import dev.sluice.stats.Moments;
+import dev.sluice.stats.FilledMoments;
 import dev.sluice.stats.Published;
 import java.util.ArrayList;
 import java.util.LinkedHashMap;
@@ -170,7 +170,7 @@ public final class SummaryTable {
     r.put("scaling", cp.treated() ? cp.scaling().method() : null);
     r.put("scale_centre", cp.scaling().active() ? cp.scaling().centre() : null);
     r.put("scale_factor", cp.scaling().active() ? cp.scaling().scale() : null);
-    Moments after = afterTreatment(c, cp, t);
+    FilledMoments after = afterTreatment(c, cp, t);
     r.put("mean_treated", after == null ? null : num(after.mean()));
     r.put("stddev_treated", after == null ? null : num(after.stddev()));
     r.put("min_treated", after == null ? null : num(after.min()));
@@ -178,16 +178,12 @@ public final class SummaryTable {
   }
 
   /** Moments of the treated values before scaling; exact, with filled values counted in. */
-  static Moments afterTreatment(ColumnProfile c, ColumnPlan cp, TreatedStats.ColumnStats t) {
+  static FilledMoments afterTreatment(ColumnProfile c, ColumnPlan cp, TreatedStats.ColumnStats t) {
     if (t == null || !cp.kept()) {
       return null;
     }
-    Moments m = Moments.of(t.present(), t.mean(), t.stddev(), t.min(), t.max());
-    long gaps = c.rows() - t.present();
-    if (cp.missing().fillNumber() != null && gaps > 0) {
-      m = m.withPointMass(cp.missing().fillNumber(), gaps);
-    }
-    return m;
+    return FilledMoments.of(t.present(), t.mean(), t.stddev(), t.min(), t.max(),
+        cp.missing().fillNumber(), c.rows() - t.present());
   }
 
   private static Double vifOf(Plan plan, String column) {
@@ -210,7 +206,8 @@ public final class SummaryTable {
     return String.join("; ", parts);
   }
 
+  /** A figure as published: NaN (none) and infinite (beyond the double range) become null. */
   private static Double num(double d) {
-    return Double.isNaN(d) ? null : d;
+    return Double.isFinite(d) ? d : null;
   }
 }

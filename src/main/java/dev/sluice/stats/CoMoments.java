@@ -38,6 +38,8 @@ public final class CoMoments implements Serializable {
 
   private final int p;
   private final double[] centres;
+  /** Power-of-two factors applied to each column's deviations (see {@link PowerScale}). */
+  private final double[] scales;
   private long rows;
   private final CompleteRows complete;
   /** Cell (j, k): x_j over incomplete rows with j and k present; (j, j): rows with j present. */
@@ -50,6 +52,28 @@ public final class CoMoments implements Serializable {
 
   /** @throws IllegalArgumentException for no centres or a non-finite centre */
   public CoMoments(double[] centres) {
+    this(centres, ones(centres.length));
+  }
+
+  /**
+   * Co-moments of the deviations {@code (x_j - centres[j]) * scales[j]}. The scales are exact
+   * powers of two that keep sums of products of very large values finite; correlations do not
+   * depend on them and covariances are returned in the columns' own units.
+   *
+   * @throws IllegalArgumentException for no centres, a non-finite centre, or scales that are not
+   *     positive powers of two or do not match the centres in number
+   */
+  public CoMoments(double[] centres, double[] scales) {
+    if (scales.length != centres.length) {
+      throw new IllegalArgumentException(
+          "Cannot scale " + centres.length + " columns with " + scales.length + " factors");
+    }
+    for (double f : scales) {
+      if (!(f > 0) || !Double.isFinite(f) || Math.scalb(1.0, Math.getExponent(f)) != f) {
+        throw new IllegalArgumentException("Cannot scale deviations by " + f + ": not a power of two");
+      }
+    }
+    this.scales = scales.clone();
     if (centres.length == 0) {
       throw new IllegalArgumentException("Cannot keep co-moments of no columns");
     }
@@ -86,7 +110,7 @@ public final class CoMoments implements Serializable {
       if (Double.isInfinite(values[j])) {
         throw new IllegalArgumentException("Cannot add the infinite value " + values[j] + " in column " + j);
       }
-      s[j] = values[j] - centres[j];
+      s[j] = values[j] * scales[j] - centres[j] * scales[j];
       anyMissing |= Double.isNaN(s[j]);
     }
     rows++;
@@ -103,7 +127,7 @@ public final class CoMoments implements Serializable {
    * @throws IllegalArgumentException when the other has different centres
    */
   public CoMoments merge(CoMoments other) {
-    if (!Arrays.equals(centres, other.centres)) {
+    if (!Arrays.equals(centres, other.centres) || !Arrays.equals(scales, other.scales)) {
       throw new IllegalArgumentException("Cannot merge co-moments kept around different centres");
     }
     rows += other.rows;
@@ -132,7 +156,7 @@ public final class CoMoments implements Serializable {
     double[][] result = new double[p][p];
     for (int j = 0; j < p; j++) {
       for (int k = j; k < p; k++) {
-        result[j][k] = pair(j, k, imputed).covariance();
+        result[j][k] = pair(j, k, imputed).covariance() / scales[j] / scales[k];
         result[k][j] = result[j][k];
       }
     }
@@ -207,8 +231,8 @@ public final class CoMoments implements Serializable {
         complete.comoment(j, j), complete.comoment(k, k), complete.comoment(j, k));
     double co = j == k ? both.m2[jk] : bothComoment[Math.min(jk, kj)];
     sum.add(both.count[jk], both.mean[jk], both.mean[kj], both.m2[jk], both.m2[kj], co);
-    double cj = imputed[j] - centres[j];
-    double ck = imputed[k] - centres[k];
+    double cj = imputed[j] * scales[j] - centres[j] * scales[j];
+    double ck = imputed[k] * scales[k] - centres[k] * scales[k];
     boolean fillJ = !Double.isNaN(cj);
     boolean fillK = !Double.isNaN(ck);
     if (fillK && j != k) {
@@ -244,6 +268,12 @@ public final class CoMoments implements Serializable {
         throw new IllegalArgumentException("Cannot impute the infinite value " + c);
       }
     }
+  }
+
+  private static double[] ones(int n) {
+    double[] one = new double[n];
+    Arrays.fill(one, 1.0);
+    return one;
   }
 
   private double[] shiftedBuffer() {

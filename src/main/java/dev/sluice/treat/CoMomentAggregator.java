@@ -26,6 +26,7 @@ public final class CoMomentAggregator extends Aggregator<Row, CoMomentAggregator
   private static final long serialVersionUID = 1L;
 
   private final double[] centres;
+  private final double[] scales;
   private final double[][] gridProbabilities;
   private final double[][] gridValues;
   private final double[] capLower;
@@ -46,9 +47,11 @@ public final class CoMomentAggregator extends Aggregator<Row, CoMomentAggregator
     }
   }
 
-  public CoMomentAggregator(
-      double[] centres, QuantileGrid[] grids, double[] capLower, double[] capUpper) {
+  /** {@code scales}: each column's power-of-two factor for its deviations (see CoMoments). */
+  public CoMomentAggregator(double[] centres, double[] scales,
+      QuantileGrid[] grids, double[] capLower, double[] capUpper) {
     this.centres = centres.clone();
+    this.scales = scales.clone();
     this.gridProbabilities = new double[grids.length][];
     this.gridValues = new double[grids.length][];
     for (int i = 0; i < grids.length; i++) {
@@ -63,7 +66,7 @@ public final class CoMomentAggregator extends Aggregator<Row, CoMomentAggregator
   public Buffer zero() {
     double[] half = new double[centres.length];
     java.util.Arrays.fill(half, 0.5);
-    return new Buffer(new CoMoments(centres), new CoMoments(half));
+    return new Buffer(new CoMoments(centres, scales), new CoMoments(half));
   }
 
   @Override

@@ -20,6 +20,7 @@ import dev.sluice.profile.ColumnProfile;
 import dev.sluice.profile.QuantileSpec;
 import dev.sluice.profile.TableProfile;
 import dev.sluice.stats.CoMoments;
+import dev.sluice.stats.PowerScale;
 import dev.sluice.stats.QuantileGrid;
 import java.util.ArrayList;
 import java.util.LinkedHashMap;
@@ -48,6 +49,7 @@ public final class TreatedStatsPass {
         profile.exactQuantiles(), settings.quantiles().relativeError(), settings.quantiles().rankGridSize());
     Aggregates aggs = new Aggregates();
     Map<String, int[]> slots = new LinkedHashMap<>();
+    Map<String, Double> scales = new LinkedHashMap<>();
     List<ColumnProfile> corr = new ArrayList<>();
     List<Column> corrValues = new ArrayList<>();
     for (ColumnProfile c : profile.columns()) {
@@ -60,7 +62,8 @@ public final class TreatedStatsPass {
       Double hi = cs.validMax().isPresent() ? cs.validMax().getAsDouble() : null;
       Column t = aggs.input(Treatments.afterOutliers(c.name(), lo, hi, o));
       Column v = aggs.input(Treatments.valid(c.name(), lo, hi));
-      slots.put(c.name(), columnAggregates(aggs, v, t, o, cs, spec));
+      slots.put(c.name(), columnAggregates(aggs, v, t, o, cs, spec, c.momentScale()));
+      scales.put(c.name(), c.momentScale());
       if (c.usable() > 0 && c.grid() != null) {
         corr.add(c);
         corrValues.add(t);
@@ -77,7 +80,7 @@ public final class TreatedStatsPass {
     }
     Row r = aggs.run(data);
     Map<String, TreatedStats.ColumnStats> stats = new LinkedHashMap<>();
-    slots.forEach((name, at) -> stats.put(name, read(r, at)));
+    slots.forEach((name, at) -> stats.put(name, read(r, at, scales.get(name))));
     List<String> names = new ArrayList<>();
     corr.forEach(c -> names.add(c.name()));
     if (comomentsAt < 0) {
@@ -87,13 +90,16 @@ public final class TreatedStatsPass {
     return new TreatedStats(stats, names, acc[0], acc[1]);
   }
 
+  /** {@code scale}: the column's power-of-two factor for its mean and standard deviation. */
   private static int[] columnAggregates(
-      Aggregates a, Column v, Column t, OutlierPlan o, ColumnSettings cs, QuantileSpec spec) {
+      Aggregates a, Column v, Column t, OutlierPlan o, ColumnSettings cs, QuantileSpec spec,
+      double scale) {
     boolean needQuartiles = cs.missing().strategy() == ImputeStrategy.MEDIAN
         || cs.scaling() == ScalingMethod.ROBUST;
     boolean needMode = cs.missing().strategy() == ImputeStrategy.MODE;
+    Column scaled = scale == 1.0 ? t : a.input(t.multiply(lit(scale)));
     return new int[] {
-      a.add(count(t)), a.add(avg(t)), a.add(stddev_samp(t)), a.add(min(t)), a.add(max(t)),
+      a.add(count(t)), a.add(avg(scaled)), a.add(stddev_samp(scaled)), a.add(min(t)), a.add(max(t)),
       needQuartiles ? a.add(spec.quartiles(t)) : -1,
       needMode ? a.add(call_function("approx_top_k", t, lit(1))) : -1,
       a.add(beyondCount(v, o.innerLower(), true)), a.add(beyondCount(v, o.innerUpper(), false)),
@@ -109,7 +115,7 @@ public final class TreatedStatsPass {
     return count_if(below ? v.lt(lit(limit)) : v.gt(lit(limit)));
   }
 
-  private static TreatedStats.ColumnStats read(Row r, int[] at) {
+  private static TreatedStats.ColumnStats read(Row r, int[] at, double scale) {
     double[] q = at[5] < 0 ? null : Aggregates.doublesAt(r, at[5]);
     double mode = Double.NaN;
     if (at[6] >= 0 && !r.isNullAt(at[6]) && !r.getList(at[6]).isEmpty()) {
@@ -117,7 +123,9 @@ public final class TreatedStatsPass {
       mode = item.isNullAt(0) ? Double.NaN : item.getDouble(0);
     }
     return new TreatedStats.ColumnStats(
-        Aggregates.longAt(r, at[0]), Aggregates.doubleAt(r, at[1]), Aggregates.doubleAt(r, at[2]),
+        Aggregates.longAt(r, at[0]),
+        PowerScale.unscale(Aggregates.doubleAt(r, at[1]), scale),
+        PowerScale.unscale(Aggregates.doubleAt(r, at[2]), scale),
         Aggregates.doubleAt(r, at[3]), Aggregates.doubleAt(r, at[4]),
         q == null ? Double.NaN : q[0], q == null ? Double.NaN : q[1], q == null ? Double.NaN : q[2],
         mode, Aggregates.longAt(r, at[7]), Aggregates.longAt(r, at[8]), Aggregates.longAt(r, at[9]),
@@ -128,6 +136,7 @@ public final class TreatedStatsPass {
       List<ColumnProfile> cols, Map<String, OutlierPlan> outliers, List<Column> values) {
     int p = cols.size();
     double[] centres = new double[p];
+    double[] scales = new double[p];
     QuantileGrid[] grids = new QuantileGrid[p];
     double[] capLo = new double[p];
     double[] capHi = new double[p];
@@ -137,6 +146,7 @@ public final class TreatedStatsPass {
       OutlierPlan o = outliers.get(c.name());
       // The median is a first-pass centre that no outlier can drag: sums of products stay small.
       centres[i] = c.median();
+      scales[i] = c.momentScale();
       grids[i] = c.grid();
       boolean cap = o.action().equals("cap");
       capLo[i] = cap && o.lower() != null ? o.lower() : Double.NEGATIVE_INFINITY;
@@ -145,7 +155,7 @@ public final class TreatedStatsPass {
     }
     StructType schema = DataTypes.createStructType(fields);
     var udaf = functions.udaf(
-        new CoMomentAggregator(centres, grids, capLo, capHi), Encoders.row(schema));
+        new CoMomentAggregator(centres, scales, grids, capLo, capHi), Encoders.row(schema));
     return udaf.apply(values.toArray(new Column[0]));
   }
 }
