@@ -153,4 +153,15 @@ class EdgeCaseTest {
     List<Object> z = column(Sluice.treat(data, f.plan()).collectAsList(), "x");
     assertThat((Double) z.get(0)).isCloseTo(1.2649110640673518, org.assertj.core.data.Offset.offset(1e-9));
   }
+
+  @Test
+  void anEmptyKllSketchGivesNoQuartilesRatherThanAnError(SparkSession spark) {
+    Dataset<Row> data = doubles(spark, "x", null, null, Double.NaN, 1.0);
+    Sluice.Fit f = fit(data, "quantiles.exact-max-count=0", "quantiles.sketch=kll",
+        "columns.x.valid-min=2");
+    var p = f.profile().column("x").orElseThrow();
+    assertThat(p.quantileMethod()).isEqualTo("approx-kll");
+    assertThat(p.usable()).isZero();
+    assertThat(Double.isNaN(p.median())).isTrue();
+  }
 }

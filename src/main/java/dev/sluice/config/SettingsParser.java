@@ -8,12 +8,14 @@ import dev.sluice.SluiceException;
 import java.util.ArrayList;
 import java.util.Collections;
 import java.util.List;
+import java.util.Locale;
 import java.util.Map;
 import java.util.Optional;
 import java.util.OptionalDouble;
 import java.util.Set;
 import java.util.TreeMap;
 import java.util.TreeSet;
+import org.apache.datasketches.kll.KllSketch;
 
 /**
  * Reads a resolved, key-checked {@code sluice} tree into {@link Settings}, checking each value's
@@ -108,7 +110,13 @@ final class SettingsParser {
         (int)
             r.whole(
                 "quantiles.rank-grid-size", 2, 100_000, "expected a whole number from 2 to 100000");
-    return new QuantileSettings(exactMaxCount, relativeError, gridSize);
+    QuantileSketch sketch = r.choice("quantiles.sketch", QuantileSketch.class);
+    double kllBest = KllSketch.getNormalizedRankError(65535, false);
+    if (sketch == QuantileSketch.KLL && relativeError < kllBest) {
+      throw r.invalid("quantiles.relative-error", String.format(Locale.ROOT,
+          "expected at least %.6f with sketch = kll (the rank error of its largest k, 65535)", kllBest));
+    }
+    return new QuantileSettings(exactMaxCount, relativeError, gridSize, sketch);
   }
 
   private static CollinearitySettings collinearity(ValueReader r) {

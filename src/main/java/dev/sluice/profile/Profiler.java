@@ -63,7 +63,7 @@ public final class Profiler {
 
   static QuantileSpec specFor(long rows, Settings settings) {
     var q = settings.quantiles();
-    return new QuantileSpec(rows <= q.exactMaxCount(), q.relativeError(), q.rankGridSize());
+    return new QuantileSpec(rows <= q.exactMaxCount(), q.relativeError(), q.rankGridSize(), q.sketch());
   }
 
   /**

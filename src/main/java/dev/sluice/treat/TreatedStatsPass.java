@@ -46,7 +46,8 @@ public final class TreatedStatsPass {
   public static TreatedStats run(
       Dataset<Row> data, TableProfile profile, Map<String, OutlierPlan> outliers, Settings settings) {
     QuantileSpec spec = new QuantileSpec(
-        profile.exactQuantiles(), settings.quantiles().relativeError(), settings.quantiles().rankGridSize());
+        profile.exactQuantiles(), settings.quantiles().relativeError(),
+        settings.quantiles().rankGridSize(), settings.quantiles().sketch());
     Aggregates aggs = new Aggregates();
     Map<String, int[]> slots = new LinkedHashMap<>();
     Map<String, Double> scales = new LinkedHashMap<>();

@@ -73,6 +73,7 @@ class ReferenceDefaultsTest {
             "sluice.quantiles.exact-max-count",
             "sluice.quantiles.rank-grid-size",
             "sluice.quantiles.relative-error",
+            "sluice.quantiles.sketch",
             "sluice.spark.conf",
             "sluice.spark.master");
   }

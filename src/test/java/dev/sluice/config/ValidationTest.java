@@ -161,6 +161,17 @@ class ValidationTest {
         .isEqualTo("Cannot set sluice." + key + " to " + value + ": " + reason);
   }
 
+  @Test
+  void kllSketchRefusesARankErrorItsLargestKCannotReach() {
+    rejection("sluice.quantiles { sketch = kll, relative-error = 0.00001 }")
+        .startsWith("Cannot set sluice.quantiles.relative-error to 0.00001: expected at least 0.0000")
+        .endsWith("with sketch = kll (the rank error of its largest k, 65535)");
+    assertThat(parse("sluice.quantiles { sketch = kll, relative-error = 0.001 }").quantiles().sketch())
+        .isEqualTo(QuantileSketch.KLL);
+    rejection("sluice.quantiles.sketch = tdigest")
+        .isEqualTo("Cannot set sluice.quantiles.sketch to \"tdigest\": expected one of gk, kll");
+  }
+
   @ParameterizedTest
   @CsvSource(
       delimiter = '|',

@@ -83,18 +83,23 @@ class ProfilerReferenceTest {
     assertThat(Arrays.stream(out).max().orElseThrow()).isCloseTo(1.0, within(1e-12));
   }
 
-  @Test
-  void approximateQuartilesAreWithinTheConfiguredRankError(SparkSession spark) {
+  @ParameterizedTest
+  @ValueSource(strings = {"gk", "kll"})
+  void approximateQuartilesAreWithinTheConfiguredRankError(String sketch, SparkSession spark) {
     // Reference: the exact ranks of the sketch's answers in the sorted data, and Commons Math
-    // R_7 for the exact values. Greenwald-Khanna guarantees |rank/n - p| <= relative error.
+    // R_7 for the exact values. Greenwald-Khanna guarantees |rank/n - p| <= relative error. KLL's
+    // published bound holds with 99 % confidence (Apache DataSketches documentation); the check
+    // allows twice the bound for it, which a correct sketch misses with negligible probability,
+    // so the test does not flicker.
+    double allowed = sketch.equals("kll") ? 0.002 : 0.001;
     SplittableRandom random = new SplittableRandom(7);
     double[] values = new double[20_000];
     for (int i = 0; i < values.length; i++) {
       values[i] = Math.exp(random.nextGaussian());
     }
     ColumnProfile p = profile(doubles(spark, "x", values), "x",
-        "quantiles.exact-max-count=1000", "quantiles.relative-error=0.001");
-    assertThat(p.quantileMethod()).isEqualTo("approx-gk");
+        "quantiles.exact-max-count=1000", "quantiles.relative-error=0.001", "quantiles.sketch=" + sketch);
+    assertThat(p.quantileMethod()).isEqualTo("approx-" + sketch);
     assertThat(p.rankError()).isEqualTo(0.001);
     double[] sorted = values.clone();
     Arrays.sort(sorted);
@@ -104,7 +109,7 @@ class ProfilerReferenceTest {
       double lowRank = lowerBound(sorted, got[i]) / (double) sorted.length;
       double highRank = upperBound(sorted, got[i]) / (double) sorted.length;
       assertThat(probs[i]).as("rank of quantile %s", probs[i])
-          .isBetween(lowRank - 0.001 - 1.0 / sorted.length, highRank + 0.001 + 1.0 / sorted.length);
+          .isBetween(lowRank - allowed - 1.0 / sorted.length, highRank + allowed + 1.0 / sorted.length);
       double exact = new Percentile().withEstimationType(Percentile.EstimationType.R_7)
           .evaluate(values, probs[i] * 100);
       assertThat(got[i]).isCloseTo(exact, within(0.01 * exact));
