@@ -112,6 +112,28 @@ public final class QuantileGrid {
     return midRank(x);
   }
 
+  /**
+   * The quantile at p of the values left after an outlier step with limits [lower, upper]
+   * (infinite limits allowed). With {@code cap} the values beyond are clamped to the limits, a
+   * monotone change, so the quantile is the clamped quantile. Otherwise they are removed, and the
+   * quantile is taken within the stretch of ranks [midRank(lower), midRank(upper)] that remains.
+   * As accurate as this grid's ranks.
+   *
+   * @throws IllegalArgumentException for p outside [0, 1], NaN limits or lower > upper
+   */
+  public double quantileWithin(double p, double lower, double upper, boolean cap) {
+    if (!(lower <= upper)) {
+      throw new IllegalArgumentException("Cannot limit to [" + lower + ", " + upper + "]");
+    }
+    if (cap) {
+      return Math.min(upper, Math.max(lower, quantile(p)));
+    }
+    double from = Double.isInfinite(lower) ? 0.0 : midRank(lower);
+    double to = Double.isInfinite(upper) ? 1.0 : midRank(upper);
+    double q = quantile(Math.min(1.0, Math.max(0.0, from + p * (to - from))));
+    return Math.min(upper, Math.max(lower, q));
+  }
+
   public double[] probabilities() {
     return probabilities.clone();
   }

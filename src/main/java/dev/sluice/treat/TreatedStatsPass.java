@@ -21,6 +21,7 @@ import dev.sluice.profile.QuantileSpec;
 import dev.sluice.profile.TableProfile;
 import dev.sluice.stats.CoMoments;
 import dev.sluice.stats.PowerScale;
+import dev.sluice.stats.Published;
 import dev.sluice.stats.QuantileGrid;
 import java.util.ArrayList;
 import java.util.LinkedHashMap;
@@ -81,7 +82,15 @@ public final class TreatedStatsPass {
     }
     Row r = aggs.run(data);
     Map<String, TreatedStats.ColumnStats> stats = new LinkedHashMap<>();
-    slots.forEach((name, at) -> stats.put(name, read(r, at, scales.get(name))));
+    for (ColumnProfile c : profile.columns()) {
+      int[] at = slots.get(c.name());
+      if (at == null) {
+        continue;
+      }
+      double[] derived = !spec.exact() && needsQuartiles(settings.column(c.name()))
+          ? derivedQuartiles(c, outliers.get(c.name())) : null;
+      stats.put(c.name(), read(r, at, scales.get(c.name()), derived));
+    }
     List<String> names = new ArrayList<>();
     corr.forEach(c -> names.add(c.name()));
     if (comomentsAt < 0) {
@@ -95,8 +104,9 @@ public final class TreatedStatsPass {
   private static int[] columnAggregates(
       Aggregates a, Column v, Column t, OutlierPlan o, ColumnSettings cs, QuantileSpec spec,
       double scale) {
-    boolean needQuartiles = cs.missing().strategy() == ImputeStrategy.MEDIAN
-        || cs.scaling() == ScalingMethod.ROBUST;
+    // On large tables the quartiles after the outlier step follow from the pass-1 grid (see
+    // derivedQuartiles): a second quantile sketch here would cost as much as pass 1's.
+    boolean needQuartiles = spec.exact() && needsQuartiles(cs);
     boolean needMode = cs.missing().strategy() == ImputeStrategy.MODE;
     Column scaled = scale == 1.0 ? t : a.input(t.multiply(lit(scale)));
     return new int[] {
@@ -109,6 +119,31 @@ public final class TreatedStatsPass {
     };
   }
 
+  private static boolean needsQuartiles(ColumnSettings cs) {
+    return cs.missing().strategy() == ImputeStrategy.MEDIAN || cs.scaling() == ScalingMethod.ROBUST;
+  }
+
+  /**
+   * Quartiles of the values after the outlier step, from the column's pass-1 quantile grid:
+   * capping clamps them, removal takes them within the remaining stretch of ranks (see {@link
+   * QuantileGrid#quantileWithin}). Null when the column has no grid.
+   */
+  static double[] derivedQuartiles(ColumnProfile c, OutlierPlan o) {
+    if (c.grid() == null) {
+      return null;
+    }
+    boolean cap = o.action().equals("cap");
+    boolean removes = o.action().equals("set-missing") || o.action().equals("quarantine");
+    double lo = (cap || removes) && o.lower() != null ? o.lower() : Double.NEGATIVE_INFINITY;
+    double hi = (cap || removes) && o.upper() != null ? o.upper() : Double.POSITIVE_INFINITY;
+    double[] out = new double[3];
+    double[] ps = {0.25, 0.5, 0.75};
+    for (int i = 0; i < 3; i++) {
+      out[i] = Published.round(c.grid().quantileWithin(ps[i], lo, hi, cap));
+    }
+    return out;
+  }
+
   private static Column beyondCount(Column v, Double limit, boolean below) {
     if (limit == null) {
       return lit(0L);
@@ -116,8 +151,8 @@ public final class TreatedStatsPass {
     return count_if(below ? v.lt(lit(limit)) : v.gt(lit(limit)));
   }
 
-  private static TreatedStats.ColumnStats read(Row r, int[] at, double scale) {
-    double[] q = at[5] < 0 ? null : Aggregates.doublesAt(r, at[5]);
+  private static TreatedStats.ColumnStats read(Row r, int[] at, double scale, double[] derived) {
+    double[] q = at[5] < 0 ? derived : Aggregates.doublesAt(r, at[5]);
     double mode = Double.NaN;
     if (at[6] >= 0 && !r.isNullAt(at[6]) && !r.getList(at[6]).isEmpty()) {
       Row item = (Row) r.getList(at[6]).get(0);
