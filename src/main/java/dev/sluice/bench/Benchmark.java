@@ -26,8 +26,9 @@ import org.apache.spark.sql.SparkSession;
 /**
  * Side-by-side timings in one Spark session, interleaved over repetitions: a plain scan that sums
  * every column, a plain Parquet copy, the hand-written MLlib pipeline, {@code survey} and {@code
- * run}. Prints the median of each and the ratios, plus the largest rank error of the fence
- * quartiles against the data's exact ranks, and writes them as JSON.
+ * run} with the default GK quantile sketch, and both again with {@code quantiles.sketch = kll}.
+ * Prints the median of each and the ratios, plus the largest rank error of the fence quartiles
+ * against the data's exact ranks, and writes them as JSON.
  *
  * <pre>
  * Benchmark [--rows N] [--columns P] [--reps R] [--data DIR] [--out FILE] [--quick]
@@ -66,7 +67,7 @@ public final class Benchmark {
     Path table = ensureTable(spark, o);
     Path work = o.out().getParent().resolve("work");
     Map<String, List<Double>> times = new LinkedHashMap<>();
-    for (String name : List.of("scan", "copy", "peer", "survey", "run")) {
+    for (String name : List.of("scan", "copy", "peer", "survey", "run", "survey_kll", "run_kll")) {
       times.put(name, new ArrayList<>());
     }
     Dataset<Row> input = spark.read().parquet(table.toString());
@@ -78,9 +79,12 @@ public final class Benchmark {
           work.resolve("peer").toString())));
       times.get("survey").add(time(() -> sluice("survey", table, work.resolve("survey"))));
       times.get("run").add(time(() -> sluice("run", table, work.resolve("run"))));
+      times.get("survey_kll").add(time(() -> sluice("survey", table, work.resolve("survey-kll"), KLL)));
+      times.get("run_kll").add(time(() -> sluice("run", table, work.resolve("run-kll"), KLL)));
       System.out.println("bench: repetition " + (rep + 1) + " of " + o.reps() + ": " + last(times));
     }
-    Map<String, Object> result = summarise(o, times, rankError(spark, input, work.resolve("run")));
+    Map<String, Object> result = summarise(o, times, rankError(spark, input, work.resolve("run")),
+        rankError(spark, input, work.resolve("run-kll")));
     Files.createDirectories(o.out().getParent());
     Outputs.JSON.writeValue(o.out().toFile(), result);
     System.out.println(Outputs.JSON.writeValueAsString(result));
@@ -109,9 +113,14 @@ public final class Benchmark {
     input.agg(sums.get(0), sums.subList(1, sums.size()).toArray(new Column[0])).first();
   }
 
-  private static void sluice(String command, Path table, Path out) {
-    int code = Main.run(new String[] {command, "--input", table.toString(), "--output", out.toString(),
-        "--replace"}, new PrintStream(PrintStream.nullOutputStream()), new PrintStream(PrintStream.nullOutputStream()));
+  private static final String[] KLL = {"--set", "quantiles.sketch=kll"};
+
+  private static void sluice(String command, Path table, Path out, String... extra) {
+    List<String> args = new ArrayList<>(List.of(command, "--input", table.toString(), "--output",
+        out.toString(), "--replace"));
+    args.addAll(Arrays.asList(extra));
+    int code = Main.run(args.toArray(new String[0]), new PrintStream(PrintStream.nullOutputStream()),
+        new PrintStream(PrintStream.nullOutputStream()));
     if (code != 0) {
       throw new IllegalStateException("sluice " + command + " failed with exit code " + code);
     }
@@ -150,7 +159,8 @@ public final class Benchmark {
     return worst;
   }
 
-  private static Map<String, Object> summarise(Options o, Map<String, List<Double>> times, double rankError) {
+  private static Map<String, Object> summarise(
+      Options o, Map<String, List<Double>> times, double rankError, double kllRankError) {
     Map<String, Object> r = new LinkedHashMap<>();
     r.put("rows", o.rows());
     r.put("numeric_columns", o.columns());
@@ -164,8 +174,12 @@ public final class Benchmark {
     ratios.put("run_over_copy", medians.get("run") / medians.get("copy"));
     ratios.put("survey_over_scan", medians.get("survey") / medians.get("scan"));
     ratios.put("peer_over_run", medians.get("peer") / medians.get("run"));
+    ratios.put("run_kll_over_copy", medians.get("run_kll") / medians.get("copy"));
+    ratios.put("survey_kll_over_scan", medians.get("survey_kll") / medians.get("scan"));
+    ratios.put("peer_over_run_kll", medians.get("peer") / medians.get("run_kll"));
     r.put("ratios", ratios);
     r.put("largest_fence_quartile_rank_error", rankError);
+    r.put("largest_fence_quartile_rank_error_kll", kllRankError);
     r.put("seconds", times);
     return r;
   }

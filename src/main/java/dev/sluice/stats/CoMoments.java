@@ -4,51 +4,69 @@ import java.io.Serializable;
 import java.util.Arrays;
 
 /**
- * Mergeable moments of p columns that may hold missing values, from which the covariance and
- * Pearson correlation of the columns <em>after</em> constant imputation can be computed exactly,
- * for imputation values chosen only after the data has been read.
+ * Mergeable sums of p columns that may hold missing values, from which the covariance and Pearson
+ * correlation of the columns <em>after</em> constant imputation can be computed exactly, for
+ * imputation values chosen only after the data has been read.
  *
- * <p>Each value is shifted by a per-column centre given at construction (for instance a
- * first-pass median) before it is used. For a pair of columns j, k the rows fall into four
- * groups: both present, only j present, only k present, neither present. After imputing c_j and
- * c_k the last three groups have one or two constant coordinates, so the pair's sums of products
- * follow from the per-group counts, means and co-moments of the present values alone, combined by
- * Chan et al.'s pairwise formula at query time. This is algebraically the same as
+ * <p>Each value is centred by a per-column centre given at construction (the pass-1 median) and
+ * scaled by an exact power of two ({@link PowerScale}; 1 for ordinary magnitudes). For a pair of
+ * columns j, k the rows fall into four groups: both present, only j present, only k present,
+ * neither present. After imputing c_j and c_k the last three groups have one or two constant
+ * coordinates, so the pair's sums follow from the counts, sums, sums of squares and sums of
+ * products of the present values alone:
  *
  * <pre>
  *   sum u_j u_k = A_jk + c'_k (S_j - B_jk) + c'_j (S_k - B_kj) + c'_j c'_k (N - n_j - n_k + P_jk)
  * </pre>
  *
  * (A, B, P the sums of products, sums and counts where both are present; S_j, n_j where j is
- * present; c'_j the shifted imputation value) but keeps means and deviations instead of raw sums,
- * so a poor centre costs only the digits lost in x - centre, not the square of them.
+ * present; c'_j the centred imputation value).
  *
- * <p>Rows without a missing entry, the common case, update one dense mean vector and co-moment
- * matrix (p(p + 1) / 2 multiply-adds, no allocation). A row with a missing entry updates, for each
- * ordered pair (j, k) with j present, the count, mean and squared deviations of x_j over the rows
- * where k is also present or where k is missing, and the co-moment where both are present (p^2
- * cells, one division each). Memory is about 8 p^2 numbers.
+ * <p>The sums are plain sums of centred values, as in the Gram-matrix route of Spark's own
+ * correlation, because they cost no division per cell and vectorize: a row without a missing
+ * entry adds p(p + 1) / 2 products to one dense triangle; a row with a missing entry adds, for
+ * each present column j, four contiguous rows of p cells (count, sum, square and product with every
+ * other column's presence). Rows are added a block at a time so that the cells stay in the
+ * cache. Centring on the median keeps the cancellation in sum u^2 - (sum u)^2 / n
+ * small: |mean - median| is at most one standard deviation for any distribution, so the relative
+ * error of a variance stays within a small multiple of n times the unit roundoff, and usually near
+ * its square root. A centre many standard deviations away from the data loses accuracy as the
+ * square of that distance. Memory is about 5 p^2 numbers.
  *
  * <p>Edge cases: NaN marks a missing entry; infinite entries and centres are rejected; no rows or
- * one row give NaN covariances. Merging requires the same centres and is cell-by-cell (Chan et
- * al.'s combination, which for counts and sums is plain addition).
+ * one row give NaN covariances. Merging requires the same centres and scales and adds the sums.
  */
 public final class CoMoments implements Serializable {
-  private static final long serialVersionUID = 1L;
+  private static final long serialVersionUID = 2L;
 
   private final int p;
   private final double[] centres;
   /** Power-of-two factors applied to each column's deviations (see {@link PowerScale}). */
   private final double[] scales;
   private long rows;
-  private final CompleteRows complete;
-  /** Cell (j, k): x_j over incomplete rows with j and k present; (j, j): rows with j present. */
-  private final CellMoments both;
-  /** Cell (j, k), j < k: co-moment of x_j and x_k over incomplete rows with both present. */
-  private final double[] bothComoment;
-  /** Cell (j, k): x_j over the rows with j present and k missing. */
-  private final CellMoments alone;
-  private transient double[] shifted;
+  /** Rows with no missing entry: their count, column sums, and products (upper triangle). */
+  private long completeRows;
+  private final double[] completeSum;
+  private final double[] completeProduct;
+  /**
+   * Rows with a missing entry; cell (j, k) covers those of them where j and k are both present
+   * (for k == j: where j is present): the count, the sum and the sum of squares of x_j, and the
+   * sum of x_j x_k.
+   */
+  private final double[] count;
+  private final double[] sum;
+  private final double[] square;
+  private final double[] product;
+  /**
+   * Rows waiting to be added, a block at a time: each cell row of the sums then stays in the
+   * cache while the whole block is added to it, instead of streaming all 4 p^2 cells per row.
+   * Flushed before the sums are read, merged or serialized.
+   */
+  private transient double[][] pendingU;
+  private transient double[][] pendingM;
+  private transient boolean[] pendingIncomplete;
+  private transient int pending;
+  private static final int BLOCK = 32;
 
   /** @throws IllegalArgumentException for no centres or a non-finite centre */
   public CoMoments(double[] centres) {
@@ -73,7 +91,6 @@ public final class CoMoments implements Serializable {
         throw new IllegalArgumentException("Cannot scale deviations by " + f + ": not a power of two");
       }
     }
-    this.scales = scales.clone();
     if (centres.length == 0) {
       throw new IllegalArgumentException("Cannot keep co-moments of no columns");
     }
@@ -84,10 +101,13 @@ public final class CoMoments implements Serializable {
     }
     this.p = centres.length;
     this.centres = centres.clone();
-    this.complete = new CompleteRows(p);
-    this.both = new CellMoments(p * p);
-    this.bothComoment = new double[p * p];
-    this.alone = new CellMoments(p * p);
+    this.scales = scales.clone();
+    this.completeSum = new double[p];
+    this.completeProduct = new double[p * p];
+    this.count = new double[p * p];
+    this.sum = new double[p * p];
+    this.square = new double[p * p];
+    this.product = new double[p * p];
   }
 
   public int dimension() {
@@ -104,37 +124,102 @@ public final class CoMoments implements Serializable {
       throw new IllegalArgumentException(
           "Cannot add a row of " + values.length + " values to " + p + " columns");
     }
-    double[] s = shiftedBuffer();
+    if (pendingU == null) {
+      pendingU = new double[BLOCK][p];
+      pendingM = new double[BLOCK][p];
+      pendingIncomplete = new boolean[BLOCK];
+    }
+    double[] u = pendingU[pending];
+    double[] m = pendingM[pending];
     boolean anyMissing = false;
     for (int j = 0; j < p; j++) {
-      if (Double.isInfinite(values[j])) {
-        throw new IllegalArgumentException("Cannot add the infinite value " + values[j] + " in column " + j);
+      double x = values[j];
+      if (Double.isInfinite(x)) {
+        throw new IllegalArgumentException("Cannot add the infinite value " + x + " in column " + j);
       }
-      s[j] = values[j] * scales[j] - centres[j] * scales[j];
-      anyMissing |= Double.isNaN(s[j]);
+      if (Double.isNaN(x)) {
+        u[j] = 0.0;
+        m[j] = 0.0;
+        anyMissing = true;
+      } else {
+        u[j] = x * scales[j] - centres[j] * scales[j];
+        m[j] = 1.0;
+      }
     }
     rows++;
-    if (anyMissing) {
-      addIncomplete(s);
-    } else {
-      complete.add(s);
+    pendingIncomplete[pending] = anyMissing;
+    pending++;
+    if (pending == BLOCK) {
+      flush();
     }
+  }
+
+  /**
+   * Adds the pending rows, cell row by cell row. Missing entries have u = 0 and m = 0, so the
+   * inner loops need no branch.
+   */
+  private void flush() {
+    if (pending == 0) {
+      return;
+    }
+    for (int j = 0; j < p; j++) {
+      int base = j * p;
+      for (int r = 0; r < pending; r++) {
+        double[] u = pendingU[r];
+        double uj = u[j];
+        if (!pendingIncomplete[r]) {
+          completeSum[j] += uj;
+          for (int k = j; k < p; k++) {
+            completeProduct[base + k] += uj * u[k];
+          }
+          continue;
+        }
+        double[] m = pendingM[r];
+        if (m[j] == 0.0) {
+          continue;
+        }
+        double uj2 = uj * uj;
+        for (int k = 0; k < p; k++) {
+          double mk = m[k];
+          count[base + k] += mk;
+          sum[base + k] += uj * mk;
+          square[base + k] += uj2 * mk;
+          product[base + k] += uj * u[k];
+        }
+      }
+    }
+    for (int r = 0; r < pending; r++) {
+      if (!pendingIncomplete[r]) {
+        completeRows++;
+      }
+    }
+    pending = 0;
+  }
+
+  private void writeObject(java.io.ObjectOutputStream out) throws java.io.IOException {
+    flush();
+    out.defaultWriteObject();
   }
 
   /**
    * Adds the other accumulator's sums into this one and returns this.
    *
-   * @throws IllegalArgumentException when the other has different centres
+   * @throws IllegalArgumentException when the other has different centres or scales
    */
   public CoMoments merge(CoMoments other) {
     if (!Arrays.equals(centres, other.centres) || !Arrays.equals(scales, other.scales)) {
       throw new IllegalArgumentException("Cannot merge co-moments kept around different centres");
     }
+    flush();
+    other.flush();
     rows += other.rows;
-    complete.merge(other.complete);
-    mergeBothComoments(other);
-    both.merge(other.both);
-    alone.merge(other.alone);
+    completeRows += other.completeRows;
+    addInto(completeSum, other.completeSum);
+    addInto(completeProduct, other.completeProduct);
+    addInto(count, other.count);
+    addInto(sum, other.sum);
+    addInto(square, other.square);
+    addInto(product, other.product);
     return this;
   }
 
@@ -153,6 +238,7 @@ public final class CoMoments implements Serializable {
    */
   public double[][] covariance(double[] imputed) {
     checkImputed(imputed);
+    flush();
     double[][] result = new double[p][p];
     for (int j = 0; j < p; j++) {
       for (int k = j; k < p; k++) {
@@ -170,6 +256,7 @@ public final class CoMoments implements Serializable {
    */
   public double[][] correlation(double[] imputed) {
     checkImputed(imputed);
+    flush();
     double[][] result = new double[p][p];
     for (int j = 0; j < p; j++) {
       result[j][j] = Double.isNaN(pair(j, j, imputed).correlation()) ? Double.NaN : 1.0;
@@ -181,81 +268,87 @@ public final class CoMoments implements Serializable {
     return result;
   }
 
-  private void addIncomplete(double[] s) {
-    for (int j = 0; j < p; j++) {
-      if (Double.isNaN(s[j])) {
-        continue;
-      }
-      both.add(j * p + j, s[j]);
-      for (int k = 0; k < p; k++) {
-        if (Double.isNaN(s[k])) {
-          alone.add(j * p + k, s[j]);
-        } else if (j < k) {
-          addBothPresent(j, k, s[j], s[k]);
-        }
-      }
-    }
-  }
-
-  private void addBothPresent(int j, int k, double xj, double xk) {
-    int cell = j * p + k;
-    double dj = both.add(cell, xj);
-    double dk = both.add(k * p + j, xk);
-    long n = both.count[cell];
-    bothComoment[cell] += dj * dk * ((n - 1) / (double) n);
-  }
-
-  /** Must run before {@code both} is merged: it needs both sides' means. */
-  private void mergeBothComoments(CoMoments other) {
-    for (int j = 0; j < p; j++) {
-      for (int k = j + 1; k < p; k++) {
-        int cell = j * p + k;
-        long nb = other.both.count[cell];
-        if (nb == 0) {
-          continue;
-        }
-        long na = both.count[cell];
-        double dj = other.both.mean[cell] - both.mean[cell];
-        double dk = other.both.mean[k * p + j] - both.mean[k * p + j];
-        bothComoment[cell] += other.bothComoment[cell] + dj * dk * ((double) na * nb / (na + nb));
-      }
-    }
-  }
-
-  /** Combines the groups of rows that count for the pair (j, k) under this imputation. */
-  private PairSum pair(int j, int k, double[] imputed) {
+  /** Sums over the rows that count for the pair (j, k) under this imputation. */
+  private Sums pair(int j, int k, double[] imputed) {
     int jk = j * p + k;
     int kj = k * p + j;
-    PairSum sum = new PairSum();
-    sum.add(complete.count, complete.mean[j], complete.mean[k],
-        complete.comoment(j, j), complete.comoment(k, k), complete.comoment(j, k));
-    double co = j == k ? both.m2[jk] : bothComoment[Math.min(jk, kj)];
-    sum.add(both.count[jk], both.mean[jk], both.mean[kj], both.m2[jk], both.m2[kj], co);
+    int jj = j * p + j;
+    int kk = k * p + k;
     double cj = imputed[j] * scales[j] - centres[j] * scales[j];
     double ck = imputed[k] * scales[k] - centres[k] * scales[k];
     boolean fillJ = !Double.isNaN(cj);
     boolean fillK = !Double.isNaN(ck);
-    if (fillK && j != k) {
-      sum.add(alone.count[jk], alone.mean[jk], ck, alone.m2[jk], 0.0, 0.0);
+    Sums s = new Sums();
+    // Both present.
+    double nBoth = completeRows + count[jk];
+    double sjBoth = completeSum[j] + sum[jk];
+    double skBoth = completeSum[k] + sum[kj];
+    double sjjBoth = completeProduct[jj] + square[jk];
+    double skkBoth = completeProduct[kk] + square[kj];
+    double sjkBoth = completeProduct[Math.min(jk, kj)] + product[jk];
+    s.add(nBoth, sjBoth, skBoth, sjjBoth, skkBoth, sjkBoth);
+    if (j == k) {
+      if (fillJ) {
+        double none = rows - nBoth;
+        s.add(none, none * cj, none * cj, none * cj * cj, none * cj * cj, none * cj * cj);
+      }
+      return s;
     }
-    if (fillJ && j != k) {
-      sum.add(alone.count[kj], cj, alone.mean[kj], 0.0, alone.m2[kj], 0.0);
+    double nJ = completeRows + count[jj];
+    double nK = completeRows + count[kk];
+    if (fillK) {
+      // j present, k missing and filled with ck.
+      double n = nJ - nBoth;
+      double sj = completeSum[j] + sum[jj] - sjBoth;
+      double sjj = completeProduct[jj] + square[jj] - sjjBoth;
+      s.add(n, sj, n * ck, sjj, n * ck * ck, ck * sj);
+    }
+    if (fillJ) {
+      double n = nK - nBoth;
+      double sk = completeSum[k] + sum[kk] - skBoth;
+      double skk = completeProduct[kk] + square[kk] - skkBoth;
+      s.add(n, n * cj, sk, n * cj * cj, skk, cj * sk);
     }
     if (fillJ && fillK) {
-      sum.add(neitherPresent(j, k), cj, ck, 0.0, 0.0, 0.0);
+      double n = rows - nJ - nK + nBoth;
+      s.add(n, n * cj, n * ck, n * cj * cj, n * ck * ck, n * cj * ck);
     }
-    return sum;
+    return s;
   }
 
-  /** N - n_j - n_k + P_jk; for j == k simply the rows where j is missing. */
-  private long neitherPresent(int j, int k) {
-    long presentJ = complete.count + both.count[j * p + j];
-    if (j == k) {
-      return rows - presentJ;
+  /** Running totals of one pair: count, sums, sums of squares and of products. */
+  private static final class Sums {
+    private double n;
+    private double sj;
+    private double sk;
+    private double sjj;
+    private double skk;
+    private double sjk;
+
+    void add(double gn, double gsj, double gsk, double gsjj, double gskk, double gsjk) {
+      n += gn;
+      sj += gsj;
+      sk += gsk;
+      sjj += gsjj;
+      skk += gskk;
+      sjk += gsjk;
     }
-    long presentK = complete.count + both.count[k * p + k];
-    long presentBoth = complete.count + both.count[j * p + k];
-    return rows - presentJ - presentK + presentBoth;
+
+    /** Sample covariance (n - 1); NaN for fewer than two rows. */
+    double covariance() {
+      return n < 2 ? Double.NaN : (sjk - sj * sk / n) / (n - 1);
+    }
+
+    /** Pearson correlation clamped to [-1, 1]; NaN for fewer than two rows or a zero variance. */
+    double correlation() {
+      double ssj = sjj - sj * sj / n;
+      double ssk = skk - sk * sk / n;
+      if (n < 2 || !(ssj > 0.0) || !(ssk > 0.0)) {
+        return Double.NaN;
+      }
+      double r = (sjk - sj * sk / n) / (Math.sqrt(ssj) * Math.sqrt(ssk));
+      return Math.max(-1.0, Math.min(1.0, r));
+    }
   }
 
   private void checkImputed(double[] imputed) {
@@ -270,16 +363,15 @@ public final class CoMoments implements Serializable {
     }
   }
 
+  private static void addInto(double[] into, double[] from) {
+    for (int i = 0; i < into.length; i++) {
+      into[i] += from[i];
+    }
+  }
+
   private static double[] ones(int n) {
     double[] one = new double[n];
     Arrays.fill(one, 1.0);
     return one;
-  }
-
-  private double[] shiftedBuffer() {
-    if (shifted == null) {
-      shifted = new double[p];
-    }
-    return shifted;
   }
 }
