@@ -31,31 +31,35 @@ import org.apache.spark.sql.SparkSession;
  * against the data's exact ranks, and writes them as JSON.
  *
  * <pre>
- * Benchmark [--rows N] [--columns P] [--reps R] [--data DIR] [--out FILE] [--quick]
+ * Benchmark [--rows N] [--columns P] [--reps R] [--data DIR] [--out FILE] [--quick | --growth]
  * </pre>
  */
 public final class Benchmark {
   private Benchmark() {}
 
-  record Options(long rows, int columns, int reps, Path data, Path out, boolean quick) {
+  record Options(long rows, int columns, int reps, Path data, Path out, boolean quick, boolean growth) {
     static Options parse(String[] args) {
       Map<String, String> m = new LinkedHashMap<>();
       boolean quick = false;
+      boolean growth = false;
       for (int i = 0; i < args.length; i++) {
         if (args[i].equals("--quick")) {
           quick = true;
+        } else if (args[i].equals("--growth")) {
+          growth = true;
         } else if (i + 1 < args.length) {
           m.put(args[i], args[++i]);
         } else {
           throw new IllegalArgumentException("Option " + args[i] + " needs a value");
         }
       }
-      long rows = Long.parseLong(m.getOrDefault("--rows", quick ? "20000" : "10000000"));
+      String defaultRows = quick ? "20000" : growth ? "1000000" : "10000000";
+      long rows = Long.parseLong(m.getOrDefault("--rows", defaultRows));
       int cols = Integer.parseInt(m.getOrDefault("--columns", "10"));
       int reps = Integer.parseInt(m.getOrDefault("--reps", quick ? "1" : "3"));
       Path data = Path.of(m.getOrDefault("--data", "target/bench-data"));
       Path out = Path.of(m.getOrDefault("--out", "target/bench/results.json"));
-      return new Options(rows, cols, reps, data, out, quick);
+      return new Options(rows, cols, reps, data, out, quick, growth);
     }
   }
 
@@ -64,7 +68,12 @@ public final class Benchmark {
     SparkSession spark = SparkSession.builder().master(System.getProperty("spark.master", "local[*]"))
         .appName("sluice-bench").config("spark.ui.enabled", "false")
         .config("spark.ui.showConsoleProgress", "false").getOrCreate();
-    Path table = ensureTable(spark, o);
+    if (o.growth()) {
+      growth(spark, o);
+      spark.stop();
+      return;
+    }
+    Path table = ensureTable(spark, o.rows(), o.columns(), o);
     Path work = o.out().getParent().resolve("work");
     Map<String, List<Double>> times = new LinkedHashMap<>();
     for (String name : List.of("scan", "copy", "peer", "survey", "run", "survey_kll", "run_kll")) {
@@ -91,14 +100,49 @@ public final class Benchmark {
     spark.stop();
   }
 
-  private static Path ensureTable(SparkSession spark, Options o) {
-    Path dir = o.data().resolve("rows" + o.rows() + "-cols" + o.columns());
+  private static Path ensureTable(SparkSession spark, long rows, int columns, Options o) {
+    Path dir = o.data().resolve("rows" + rows + "-cols" + columns);
     if (!Files.exists(dir.resolve("_SUCCESS"))) {
       System.out.println("bench: generating " + dir + " (once; later runs reuse it)");
-      ColdStorageTable.generateWide(spark, o.rows(), o.columns(), 20261201L)
+      ColdStorageTable.generateWide(spark, rows, columns, 20261201L)
           .write().mode(SaveMode.Overwrite).parquet(dir.toString());
     }
     return dir;
+  }
+
+  /**
+   * How {@code run} grows: N rows x P columns against 4 N x P (goal: at most 4.4 x the time) and
+   * N x 200 (goal: at most 25 x), interleaved over the repetitions.
+   */
+  private static void growth(SparkSession spark, Options o) throws IOException {
+    Map<String, Path> tables = new LinkedHashMap<>();
+    tables.put("base", ensureTable(spark, o.rows(), o.columns(), o));
+    tables.put("rows_x4", ensureTable(spark, 4 * o.rows(), o.columns(), o));
+    tables.put("cols_200", ensureTable(spark, o.rows(), 200, o));
+    Path work = o.out().getParent().resolve("work");
+    Map<String, List<Double>> times = new LinkedHashMap<>();
+    tables.keySet().forEach(k -> times.put(k, new ArrayList<>()));
+    for (int rep = 0; rep < o.reps(); rep++) {
+      tables.forEach((k, t) -> times.get(k).add(time(() -> sluice("run", t, work.resolve("growth-" + k)))));
+      System.out.println("bench: repetition " + (rep + 1) + " of " + o.reps() + ": " + last(times));
+    }
+    Map<String, Object> r = new LinkedHashMap<>();
+    r.put("rows", o.rows());
+    r.put("numeric_columns", o.columns());
+    r.put("repetitions", o.reps());
+    r.put("cores", Runtime.getRuntime().availableProcessors());
+    r.put("max_heap_mb", Runtime.getRuntime().maxMemory() / (1024 * 1024));
+    Map<String, Double> medians = new LinkedHashMap<>();
+    times.forEach((k, v) -> medians.put(k, median(v)));
+    r.put("median_seconds", medians);
+    Map<String, Double> ratios = new LinkedHashMap<>();
+    ratios.put("rows_x4_over_base", medians.get("rows_x4") / medians.get("base"));
+    ratios.put("cols_200_over_base", medians.get("cols_200") / medians.get("base"));
+    r.put("ratios", ratios);
+    r.put("seconds", times);
+    Files.createDirectories(o.out().getParent());
+    Outputs.JSON.writeValue(o.out().toFile(), r);
+    System.out.println(Outputs.JSON.writeValueAsString(r));
   }
 
   private static List<String> numericColumns(Dataset<Row> input) {
