@@ -18,6 +18,7 @@ import java.util.List;
 import org.apache.spark.sql.Dataset;
 import org.apache.spark.sql.Row;
 import org.apache.spark.sql.SparkSession;
+import org.apache.spark.sql.types.StructType;
 
 /**
  * Shared steps of the bad-input corpus: run the command line in-process, check a refusal (exit
@@ -115,6 +116,47 @@ public final class Corpus {
     assertThat(record.at("/rows/quarantined").asLong()).as("run.json quarantined").isEqualTo(held);
     assertThat(record.at("/rows/reconciled").isBoolean()).as("reconciled is recorded").isTrue();
     assertThat(record.at("/rows/reconciled").asBoolean()).as("reconciled").isTrue();
+  }
+
+  /**
+   * A successful run's outputs read back once, for a run that several cases check: the counts,
+   * treated/ in check order, the schema of treated/, and the summary rows. Empty when the run did
+   * not finish; {@link #assertReconciled} then fails with what the run printed.
+   */
+  public record Finished(
+      Result result, Path out, JsonNode record, long treatedCount, long heldCount,
+      StructType treatedSchema, List<Row> treatedRows, List<Row> summaryRows) {
+
+    /** As {@link Corpus#assertReconciled}, from the counts read once. */
+    public void assertReconciled(long rows) {
+      assertThat(result.code()).as(result.shown()).isZero();
+      assertThat(out.resolve("_COMMITTED")).as("completion marker; %s", result.shown()).exists();
+      assertThat(record.at("/rows/read").asLong()).as("rows read").isEqualTo(rows);
+      assertThat(treatedCount + heldCount).as("rows read = treated + quarantined").isEqualTo(rows);
+      assertThat(record.at("/rows/treated").asLong()).as("run.json treated").isEqualTo(treatedCount);
+      assertThat(record.at("/rows/quarantined").asLong()).as("run.json quarantined").isEqualTo(heldCount);
+      assertThat(record.at("/rows/reconciled").isBoolean()).as("reconciled is recorded").isTrue();
+      assertThat(record.at("/rows/reconciled").asBoolean()).as("reconciled").isTrue();
+    }
+
+    /** The summary row of {@code column}. */
+    public Row summaryRow(String column) {
+      List<Row> rows = summaryRows.stream().filter(r -> column.equals(r.getAs("column"))).toList();
+      assertThat(rows).as("summary rows of " + column).hasSize(1);
+      return rows.get(0);
+    }
+  }
+
+  /** Reads a run's outputs once; {@code order} sorts treated/ (a column every row has). */
+  public static Finished finish(SparkSession spark, Result r, Path out, String order) {
+    if (r.code() != 0 || !Files.exists(out.resolve("_COMMITTED"))) {
+      return new Finished(r, out, new ObjectMapper().createObjectNode(), -1, -1, new StructType(),
+          List.of(), List.of());
+    }
+    Dataset<Row> t = treated(spark, out);
+    return new Finished(r, out, json(out.resolve("run.json")), t.count(),
+        count(spark, out.resolve("quarantine")), t.schema(), t.orderBy(order).collectAsList(),
+        spark.read().parquet(out.resolve("summary").toString()).collectAsList());
   }
 
   /** Rows of the Parquet table at {@code dir}; 0 when it was not written. */

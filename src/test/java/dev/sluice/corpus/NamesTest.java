@@ -73,13 +73,14 @@ class NamesTest {
       new Awkward("brace{}", "columns.\"brace{}\""),
       new Awkward("new\nline", "columns.\"new\\nline\""));
 
-  private Path in;
-  private Path out;
-  private Corpus.Result result;
+  /** The awkward run read back once: its outputs and the names in summary.csv. */
+  private record AwkwardRun(Corpus.Finished run, Set<String> csvNames) {}
+
+  private AwkwardRun awkward;
 
   /** Written and run on first use, so that a failure shows in the cases rather than in a setup. */
-  private synchronized Corpus.Result awkwardRun(SparkSession spark) {
-    if (result == null) {
+  private AwkwardRun awkwardRun(SparkSession spark) {
+    if (awkward == null) {
       Dataset<Row> table = spark.sql("SELECT id AS check_no FROM range(" + ROWS + ")");
       List<String> args = new ArrayList<>(List.of("--set", "columns.check_no.role=identifier"));
       for (int k = 0; k < NAMES.size(); k++) {
@@ -90,11 +91,13 @@ class NamesTest {
         args.add("--set");
         args.add(NAMES.get(k).key() + ".valid-max=" + (base + 100));
       }
-      in = Corpus.parquet(table, shared.resolve("awkward"));
-      out = shared.resolve("awkward-out");
-      result = run("run", in, out, args.toArray(new String[0]));
+      Path in = Corpus.parquet(table, shared.resolve("awkward"));
+      Path out = shared.resolve("awkward-out");
+      Corpus.Result r = run("run", in, out, args.toArray(new String[0]));
+      Corpus.Finished finished = Corpus.finish(spark, r, out, "check_no");
+      awkward = new AwkwardRun(finished, r.code() == 0 ? summaryCsvColumns(spark, out) : Set.of());
     }
-    return result;
+    return awkward;
   }
 
   static Stream<Arguments> names() {
@@ -110,29 +113,27 @@ class NamesTest {
   @ParameterizedTest(name = "{0}")
   @MethodSource("names")
   void awkwardNameIsTreatedAndReachedByItsQuotedKey(String shown, int k, SparkSession spark) {
-    assertReconciled(spark, awkwardRun(spark), out, ROWS);
+    AwkwardRun a = awkwardRun(spark);
+    a.run().assertReconciled(ROWS);
     String name = NAMES.get(k).name();
     double base = 100.0 * (k + 1);
-    Dataset<Row> t = treated(spark, out);
-    assertThat(t.columns()).as("exact name in treated/").containsOnlyOnce(name);
-    List<Row> rows = t.select("check_no", "`" + name.replace("`", "``") + "`")
-        .orderBy("check_no").collectAsList();
-    for (Row r : rows) {
-      long id = r.getLong(0);
+    assertThat(a.run().treatedSchema().fieldNames()).as("exact name in treated/").containsOnlyOnce(name);
+    for (Row r : a.run().treatedRows()) {
+      long id = r.<Long>getAs("check_no");
       double expected = id == 18 ? base + 27 : id == 19 ? base + 9 : base + id;
-      assertThat(r.getDouble(1)).as("%s at check_no %d", shown, id).isEqualTo(expected);
+      assertThat(r.<Double>getAs(name)).as("%s at check_no %d", shown, id).isEqualTo(expected);
     }
-    Row s = summaryRow(spark, out, name);
+    Row s = a.run().summaryRow(name);
     assertThat(s.<Double>getAs("valid_max")).as("the quoted key reached the column").isEqualTo(base + 100);
     assertThat(s.<Long>getAs("invalid")).isEqualTo(1);
     assertThat(s.<Long>getAs("values_capped")).isEqualTo(1);
     assertThat(s.<Double>getAs("action_upper")).isEqualTo(base + 27);
-    JsonNode plan = planOf(out, name);
+    JsonNode plan = planOf(a.run().out(), name);
     assertThat(plan.get("validMax").asDouble()).isEqualTo(base + 100);
-    assertThat(summaryCsvColumns(spark)).as("summary.csv keeps the exact name").contains(name);
+    assertThat(a.csvNames()).as("summary.csv keeps the exact name").contains(name);
   }
 
-  private Set<String> summaryCsvColumns(SparkSession spark) {
+  private static Set<String> summaryCsvColumns(SparkSession spark, Path out) {
     // RFC 4180 as Outputs.csv writes it: quotes doubled, fields with line breaks quoted.
     return spark.read().option("header", "true").option("multiLine", "true").option("escape", "\"")
         .csv(out.resolve("summary.csv").toString()).select("column").collectAsList().stream()
@@ -141,11 +142,12 @@ class NamesTest {
 
   @Test
   void awkwardNamesKeepTheirOrderAndNothingIsQuarantined(SparkSession spark) {
-    assertReconciled(spark, awkwardRun(spark), out, ROWS);
+    AwkwardRun a = awkwardRun(spark);
+    a.run().assertReconciled(ROWS);
     List<String> expected = new ArrayList<>(List.of("check_no"));
     NAMES.forEach(n -> expected.add(n.name()));
-    assertThat(treated(spark, out).columns()).containsExactlyElementsOf(expected);
-    assertThat(out.resolve("quarantine")).as("set-missing quarantines nothing").doesNotExist();
+    assertThat(a.run().treatedSchema().fieldNames()).containsExactlyElementsOf(expected);
+    assertThat(a.run().heldCount()).as("set-missing quarantines nothing").isZero();
   }
 
   @Test
