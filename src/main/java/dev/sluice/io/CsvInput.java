@@ -49,7 +49,8 @@ final class CsvInput {
   private static StructType configuredSchema(String ddl) {
     try {
       return StructType.fromDDL(ddl);
-    } catch (RuntimeException e) {
+    } catch (Exception e) {
+      // A DDL syntax error is a ParseException: checked in Java terms, thrown undeclared by Scala.
       throw SluiceException.usage("Cannot set sluice.input.csv.schema to \"" + ddl + "\": "
           + TableReader.firstLine(e.getMessage()));
     }

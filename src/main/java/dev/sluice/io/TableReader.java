@@ -128,11 +128,19 @@ public final class TableReader {
     return firstLine(message);
   }
 
+  /**
+   * The first non-blank line: Spark's parse errors start with a line break, and their first line
+   * alone would leave the message without a reason.
+   */
   static String firstLine(String message) {
     if (message == null) {
       return "unknown error";
     }
-    int nl = message.indexOf('\n');
-    return (nl < 0 ? message : message.substring(0, nl)).trim();
+    for (String line : message.split("\\R")) {
+      if (!line.isBlank()) {
+        return line.trim();
+      }
+    }
+    return "unknown error";
   }
 }
