@@ -136,6 +136,11 @@ final class SettingsParser {
                 2,
                 Integer.MAX_VALUE,
                 "expected a whole number of at least 2");
+    if (drop && !enabled) {
+      // Nothing is suggested with the analysis off: the drop would be silently ignored.
+      throw r.invalid("collinearity.drop",
+          "expected false while sluice.collinearity.enabled = false (there is no suggested drop set)");
+    }
     return new CollinearitySettings(enabled, pairThreshold, vifLimit, drop, maxColumns);
   }
 

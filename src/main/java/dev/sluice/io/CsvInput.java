@@ -11,6 +11,7 @@ import org.apache.spark.sql.DataFrameReader;
 import org.apache.spark.sql.Dataset;
 import org.apache.spark.sql.Row;
 import org.apache.spark.sql.SparkSession;
+import org.apache.spark.sql.functions;
 import org.apache.spark.sql.types.DataTypes;
 import org.apache.spark.sql.types.StructType;
 import org.apache.spark.storage.StorageLevel;
@@ -31,8 +32,12 @@ final class CsvInput {
     StructType schema = s.csvSchema().isPresent()
         ? configuredSchema(s.csvSchema().get())
         : options(spark, s).option("inferSchema", "true").load(path).schema();
+    if (schema.fields().length == 0) {
+      throw SluiceException.input("CSV input " + path + " has no columns: it is empty or holds only blank lines");
+    }
     if (s.csvHeader()) {
       checkHeader(path, schema, s.csvSchema().isPresent());
+      checkRepeatedNames(spark, path, s);
     }
     StructType withRaw = schema.add(InputTable.MALFORMED_COLUMN, DataTypes.StringType, true);
     Dataset<Row> data = options(spark, s)
@@ -41,6 +46,7 @@ final class CsvInput {
         .schema(withRaw)
         .load(path)
         .persist(StorageLevel.MEMORY_AND_DISK());
+    checkParses(data, path);
     List<String> partitions = directory(spark, path)
         .map(st -> TableReader.partitionColumns(spark, st)).orElse(List.of());
     return new InputTable(data, path, "csv", partitions, Optional.of(InputTable.MALFORMED_COLUMN));
@@ -78,6 +84,48 @@ final class CsvInput {
     if (allNumbers) {
       throw SluiceException.input("CSV file " + path + " seems to have no header row (its first"
           + " line is all numbers); set input.csv.header = false to read it without one");
+    }
+  }
+
+  /** Spark would rename a repeated header name (reading0, reading1); refuse it instead. */
+  private static void checkRepeatedNames(SparkSession spark, String path, InputSettings s) {
+    List<Row> first = options(spark, s).option("header", "false").load(path).limit(1).collectAsList();
+    if (first.isEmpty()) {
+      return;
+    }
+    java.util.Set<String> seen = new java.util.HashSet<>();
+    Row header = first.get(0);
+    for (int i = 0; i < header.length(); i++) {
+      String name = header.isNullAt(i) ? "" : header.getString(i);
+      if (!seen.add(name)) {
+        throw SluiceException.input("CSV input " + path + " repeats the column name \"" + name
+            + "\" in its header; give every column its own name");
+      }
+    }
+  }
+
+  /**
+   * Reads the table once into its cache, so that a header that disagrees with the configured
+   * schema fails here with the path, and refuses a malformed record that spans several lines:
+   * a quote that is never closed swallows the lines after it, and those rows could not be told
+   * apart any more.
+   */
+  private static void checkParses(Dataset<Row> data, String path) {
+    List<Row> spanning;
+    try {
+      spanning = data.filter(functions.col(InputTable.MALFORMED_COLUMN).rlike("[\\r\\n]"))
+          .select(InputTable.MALFORMED_COLUMN).limit(1).collectAsList();
+    } catch (Exception e) {
+      data.unpersist();
+      throw SluiceException.input(
+          "Cannot read " + path + " as csv: " + TableReader.firstLine(e.getMessage()), e);
+    }
+    if (!spanning.isEmpty()) {
+      data.unpersist();
+      String text = spanning.get(0).getString(0);
+      String start = text.substring(0, Math.min(40, text.length())).replaceAll("[\\r\\n]+", " | ");
+      throw SluiceException.input("CSV input " + path + " has a malformed record that spans several"
+          + " lines, most likely a quote that is never closed; it begins \"" + start + "\"");
     }
   }
 

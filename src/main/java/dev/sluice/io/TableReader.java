@@ -34,6 +34,10 @@ public final class TableReader {
       }
       Dataset<Row> data = spark.read().format(format).load(path);
       data.schema(); // resolve now, so a bad table fails here with its path
+      if (format.equals("json") && data.schema().fields().length == 1
+          && data.schema().fieldNames()[0].equals("_corrupt_record")) {
+        throw SluiceException.input("Cannot read " + path + " as json: no line of it is a JSON record");
+      }
       List<String> partitions = status.isDirectory() ? partitionColumns(spark, status) : List.of();
       return new InputTable(data, path, format, partitions);
     } catch (SluiceException e) {

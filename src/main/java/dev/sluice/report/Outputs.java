@@ -75,6 +75,9 @@ public final class Outputs {
       List<Map<String, Object>> rows) {
     CsvWriterSettings settings = new CsvWriterSettings();
     settings.setQuoteEscapingEnabled(true);
+    // Keep text as it is: a column named " padded " must stay that name.
+    settings.setIgnoreLeadingWhitespaces(false);
+    settings.setIgnoreTrailingWhitespaces(false);
     settings.setHeaders(columns.keySet().toArray(new String[0]));
     try (OutputStream os = create(spark, file);
         Writer w = new OutputStreamWriter(os, StandardCharsets.UTF_8)) {
