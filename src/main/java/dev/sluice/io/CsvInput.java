@@ -89,6 +89,7 @@ final class CsvInput {
 
   /** Spark would rename a repeated header name (reading0, reading1); refuse it instead. */
   private static void checkRepeatedNames(SparkSession spark, String path, InputSettings s) {
+    // One line, the header, read as plain fields.
     List<Row> first = options(spark, s).option("header", "false").load(path).limit(1).collectAsList();
     if (first.isEmpty()) {
       return;

@@ -127,8 +127,10 @@ public final class Planner {
     try {
       return Double.parseDouble(text.trim());
     } catch (NumberFormatException e) {
-      throw SluiceException.usage("Cannot set sluice.columns.\"" + column
-          + "\".missing.constant to \"" + text + "\": the column is numeric");
+      // joinPath quotes the column name only where HOCON needs it, as the other messages do.
+      String key = com.typesafe.config.ConfigUtil.joinPath("sluice", "columns", column, "missing", "constant");
+      throw SluiceException.usage(
+          "Cannot set " + key + " to \"" + text + "\": the column is numeric");
     }
   }
 
