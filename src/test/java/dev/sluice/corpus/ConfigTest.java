@@ -153,7 +153,7 @@ class ConfigTest {
         "--set", "columns.air_temp_c.missing.constant=cold");
     String message = assertRefusedWith(r, 2, "Cannot set sluice.columns.", out());
     assertThat(message).isEqualTo(
-        "Cannot set sluice.columns.air_temp_c.missing.constant to \"cold\": the column is numeric");
+        "sluice: Cannot set sluice.columns.air_temp_c.missing.constant to \"cold\": the column is numeric");
   }
 
   @Test
