@@ -129,15 +129,8 @@ public final class Benchmark {
       tables.forEach((k, t) -> times.get(k).add(time(() -> sluice("run", t, work.resolve("growth-" + k)))));
       System.out.println("bench: repetition " + (rep + 1) + " of " + o.reps() + ": " + last(times));
     }
-    Map<String, Object> r = new LinkedHashMap<>();
-    r.put("rows", o.rows());
-    r.put("numeric_columns", o.columns());
-    r.put("repetitions", o.reps());
-    r.put("cores", Runtime.getRuntime().availableProcessors());
-    r.put("max_heap_mb", Runtime.getRuntime().maxMemory() / (1024 * 1024));
-    Map<String, Double> medians = new LinkedHashMap<>();
-    times.forEach((k, v) -> medians.put(k, median(v)));
-    r.put("median_seconds", medians);
+    Map<String, Double> medians = medians(times);
+    Map<String, Object> r = header(o, medians);
     Map<String, Double> ratios = new LinkedHashMap<>();
     ratios.put("rows_x4_over_base", medians.get("rows_x4") / medians.get("base"));
     ratios.put("cols_200_over_base", medians.get("cols_200") / medians.get("base"));
@@ -208,15 +201,8 @@ public final class Benchmark {
 
   private static Map<String, Object> summarise(
       Options o, Map<String, List<Double>> times, double rankError, double kllRankError) {
-    Map<String, Object> r = new LinkedHashMap<>();
-    r.put("rows", o.rows());
-    r.put("numeric_columns", o.columns());
-    r.put("repetitions", o.reps());
-    r.put("cores", Runtime.getRuntime().availableProcessors());
-    r.put("max_heap_mb", Runtime.getRuntime().maxMemory() / (1024 * 1024));
-    Map<String, Double> medians = new LinkedHashMap<>();
-    times.forEach((k, v) -> medians.put(k, median(v)));
-    r.put("median_seconds", medians);
+    Map<String, Double> medians = medians(times);
+    Map<String, Object> r = header(o, medians);
     Map<String, Double> ratios = new LinkedHashMap<>();
     ratios.put("run_over_copy", medians.get("run") / medians.get("copy"));
     ratios.put("survey_over_scan", medians.get("survey") / medians.get("scan"));
@@ -229,6 +215,24 @@ public final class Benchmark {
     r.put("largest_fence_quartile_rank_error_kll", kllRankError);
     r.put("seconds", times);
     return r;
+  }
+
+  /** The run's size and machine, and the median seconds of each case. */
+  private static Map<String, Object> header(Options o, Map<String, Double> medians) {
+    Map<String, Object> r = new LinkedHashMap<>();
+    r.put("rows", o.rows());
+    r.put("numeric_columns", o.columns());
+    r.put("repetitions", o.reps());
+    r.put("cores", Runtime.getRuntime().availableProcessors());
+    r.put("max_heap_mb", Runtime.getRuntime().maxMemory() / (1024 * 1024));
+    r.put("median_seconds", medians);
+    return r;
+  }
+
+  private static Map<String, Double> medians(Map<String, List<Double>> times) {
+    Map<String, Double> medians = new LinkedHashMap<>();
+    times.forEach((k, v) -> medians.put(k, median(v)));
+    return medians;
   }
 
   private static double median(List<Double> v) {
