@@ -152,7 +152,9 @@ public final class TreatedStatsPass {
   }
 
   private static TreatedStats.ColumnStats read(Row r, int[] at, double scale, double[] derived) {
-    double[] q = at[5] < 0 ? derived : Aggregates.doublesAt(r, at[5]);
+    // Derived quartiles only where values are left: the grid knows nothing of an empty remainder.
+    double[] q = at[5] >= 0 ? Aggregates.doublesAt(r, at[5])
+        : Aggregates.longAt(r, at[0]) > 0 ? derived : null;
     double mode = Double.NaN;
     if (at[6] >= 0 && !r.isNullAt(at[6]) && !r.getList(at[6]).isEmpty()) {
       Row item = (Row) r.getList(at[6]).get(0);
