@@ -1,0 +1,196 @@
+package dev.sluice.stats;
+
+import java.io.Serializable;
+
+/**
+ * Mutable, mergeable count, mean, sample standard deviation, minimum and maximum of finite doubles,
+ * over the whole double range; one instance per part of a column, Java-serializable so that parts
+ * can be combined on their way to the driver.
+ *
+ * <p>Method: Welford's update relative to a shift (the first value added, as in
+ * {@link Moments.Accumulator}, so a large common offset costs no digits of the deviations), and
+ * Chan et al.'s pairwise combination for {@link #merge}. The result does not depend on how values
+ * were split into parts or on the order of merges, apart from floating-point rounding.
+ *
+ * <p>Very large magnitudes: squares of values from about 1.3e154 overflow, and so does
+ * {@code x - shift} for values near {@code Double.MAX_VALUE} with a shift near its negative. The
+ * first time a value of magnitude 2^500 or more arrives ({@link PowerScale}'s threshold), the state
+ * switches for good to values multiplied by 2^-600: the state already held is rescaled exactly
+ * (powers of two change exponents only; contributions below about 2^-422 of the original units
+ * underflow, which is negligible next to values of 2^500). {@link #merge} brings both sides to the
+ * same scale first. Figures are returned in the original units.
+ *
+ * <p>Edge cases:
+ * <ul>
+ *   <li>No values: count 0, every other figure NaN. One value: mean, minimum and maximum are that
+ *       value, the standard deviation is NaN (it uses n - 1).
+ *   <li>All values equal: the standard deviation is exactly 0 and the mean is exactly that value.
+ *   <li>The mean of finite values is finite: it is kept within [minimum, maximum].
+ *   <li>A standard deviation beyond {@code Double.MAX_VALUE} (values -MAX and +MAX, say) is
+ *       {@code +Infinity}: not representable.
+ *   <li>-0.0 and 0.0 are equal values (spread 0); the minimum of the two is -0.0 and the maximum
+ *       0.0, as {@link Math#min} and {@link Math#max} order them.
+ *   <li>NaN and infinite values are rejected with an {@link IllegalArgumentException}; the caller
+ *       filters them first. A rejected value leaves the state unchanged.
+ *   <li>Range limits: values below 2^500 in magnitude are summed unscaled, and the sum of squared
+ *       deviations stays finite for up to 2^24 (16.8 million) values per instance whatever they are;
+ *       beyond that only if the values do not crowd near +/-2^500. Values whose deviations are
+ *       below about 1e-154 lose their squares to underflow (a standard deviation of such a column
+ *       comes out too small, possibly 0), as with any sum of squares in doubles.
+ * </ul>
+ *
+ * <p>{@code add} allocates nothing and costs one comparison plus Welford's handful of operations.
+ */
+public final class ScaledMoments implements Serializable {
+  private static final long serialVersionUID = 1L;
+
+  /** Values of at least this magnitude switch the state to scaled units. */
+  private static final double SWITCH_AT = Math.scalb(1.0, PowerScale.FROM_EXPONENT);
+  /** The factor of the scaled state, 2^-600, and its inverse. */
+  private static final double DOWN = 0x1p-600;
+  private static final double UP = 0x1p600;
+
+  private long count;
+  /** 1.0 (values as they are) or {@link #DOWN} (values times 2^-600); shift, shiftedMean and m2 are in these units. */
+  private double factor = 1.0;
+  private double shift;
+  private double shiftedMean;
+  private double m2;
+  private double min = Double.POSITIVE_INFINITY;
+  private double max = Double.NEGATIVE_INFINITY;
+
+  /**
+   * Adds one finite value.
+   *
+   * @throws IllegalArgumentException for NaN or an infinite value, naming it
+   */
+  public void add(double x) {
+    if (!(Math.abs(x) < SWITCH_AT)) {
+      beforeLargeValue(x);
+    }
+    double v = x * factor;
+    if (count == 0) {
+      shift = v;
+    }
+    count++;
+    double y = v - shift;
+    double delta = y - shiftedMean;
+    shiftedMean += delta / count;
+    m2 += delta * (y - shiftedMean);
+    min = Math.min(min, x);
+    max = Math.max(max, x);
+  }
+
+  /** Rare path of {@link #add}: rejects non-finite values and switches to the scaled state once. */
+  private void beforeLargeValue(double x) {
+    if (!Double.isFinite(x)) {
+      throw new IllegalArgumentException("Cannot summarise the non-finite value " + x);
+    }
+    if (factor == 1.0) {
+      switchToScaled();
+    }
+  }
+
+  /** Multiplies the state by 2^-600 (m2 by 2^-1200): exact apart from underflow. */
+  private void switchToScaled() {
+    factor = DOWN;
+    shift *= DOWN;
+    shiftedMean *= DOWN;
+    m2 = m2 * DOWN * DOWN;
+  }
+
+  /**
+   * Folds {@code other} into this instance (Chan et al.'s combination of two disjoint parts) and
+   * returns this; {@code other} is not changed. Merging an empty part changes nothing; merging into
+   * an empty instance copies the other part. An instance merged with itself counts its values twice.
+   */
+  public ScaledMoments merge(ScaledMoments other) {
+    if (other.count == 0) {
+      return this;
+    }
+    if (count == 0) {
+      factor = other.factor;
+      shift = other.shift;
+      shiftedMean = other.shiftedMean;
+      m2 = other.m2;
+      min = other.min;
+      max = other.max;
+      count = other.count;
+      return this;
+    }
+    double otherShift = other.shift;
+    double otherShiftedMean = other.shiftedMean;
+    double otherM2 = other.m2;
+    long otherCount = other.count;
+    if (factor != other.factor) {
+      if (factor == 1.0) {
+        switchToScaled();
+      } else {
+        otherShift *= DOWN;
+        otherShiftedMean *= DOWN;
+        otherM2 = otherM2 * DOWN * DOWN;
+      }
+    }
+    long n = count + otherCount;
+    // Difference of means, shifts first: for close shifts (NIST NumAcc4) their difference is exact.
+    double delta = (otherShift - shift) + (otherShiftedMean - shiftedMean);
+    double otherShare = (double) otherCount / n;
+    shiftedMean += delta * otherShare;
+    // delta^2 n1 n2 / n, multiplied so that no intermediate exceeds the term itself.
+    m2 = m2 + otherM2 + delta * delta * (count * otherShare);
+    count = n;
+    min = Math.min(min, other.min);
+    max = Math.max(max, other.max);
+    return this;
+  }
+
+  /** The number of values added. */
+  public long count() {
+    return count;
+  }
+
+  /** The mean, in the original units and within [minimum, maximum]; NaN when empty. */
+  public double mean() {
+    if (count == 0) {
+      return Double.NaN;
+    }
+    double mean = shift + shiftedMean;
+    if (factor != 1.0) {
+      mean *= UP;
+    }
+    return Math.max(min, Math.min(max, mean));
+  }
+
+  /**
+   * The sample standard deviation (n - 1), in the original units; NaN for fewer than two values,
+   * {@code +Infinity} when it exceeds {@code Double.MAX_VALUE}.
+   */
+  public double stddev() {
+    if (count < 2) {
+      return Double.NaN;
+    }
+    double sd = Math.sqrt(m2 / (count - 1));
+    return factor == 1.0 ? sd : sd * UP;
+  }
+
+  /** The smallest value (-0.0 below 0.0); NaN when empty. */
+  public double min() {
+    return count == 0 ? Double.NaN : min;
+  }
+
+  /** The largest value (0.0 above -0.0); NaN when empty. */
+  public double max() {
+    return count == 0 ? Double.NaN : max;
+  }
+
+  /** Whether the state is kept on values times 2^-600 (a value of magnitude 2^500 or more was seen). */
+  boolean scaled() {
+    return factor != 1.0;
+  }
+
+  @Override
+  public String toString() {
+    return "ScaledMoments[count=" + count + ", mean=" + mean() + ", stddev=" + stddev()
+        + ", min=" + min() + ", max=" + max() + ", scaled=" + scaled() + "]";
+  }
+}
