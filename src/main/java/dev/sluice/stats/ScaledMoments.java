@@ -33,7 +33,7 @@ import java.io.Serializable;
  *   <li>NaN and infinite values are rejected with an {@link IllegalArgumentException}; the caller
  *       filters them first. A rejected value leaves the state unchanged.
  *   <li>Range limits: values below 2^500 in magnitude are summed unscaled, and the sum of squared
- *       deviations stays finite for up to 2^24 (16.8 million) values per instance whatever they are;
+ *       deviations stays finite for fewer than 2^24 (16.8 million) values per instance whatever they are;
  *       beyond that only if the values do not crowd near +/-2^500. Values whose deviations are
  *       below about 1e-154 lose their squares to underflow (a standard deviation of such a column
  *       comes out too small, possibly 0), as with any sum of squares in doubles.
