@@ -132,25 +132,50 @@ public final class RowSample implements Serializable {
 
   /**
    * The canonical 64-bit hash of a row's content. Each value is first reduced to 64 bits, with
-   * -0.0 taken as 0.0 and every NaN as the canonical NaN ({@link Double#doubleToLongBits}); the
-   * bits are folded in one value at a time with the SplitMix64 output function (Stafford's
-   * "Mix13" 64-bit finalizer):
+   * -0.0 taken as 0.0 and every NaN as the canonical NaN ({@link Double#doubleToLongBits}). Values
+   * are folded in with one step built on the SplitMix64 output function (Stafford's "Mix13" 64-bit
+   * finalizer):
    *
    * <pre>
-   *   h = 0;  for each value v:  h = mix13((h ^ bits(v)) + 0x9E3779B97F4A7C15)
-   *   mix13(z): z = (z ^ (z >>> 30)) * 0xBF58476D1CE4E5B9; z = (z ^ (z >>> 27)) * 0x94D049BB133111EB;
-   *             return z ^ (z >>> 31)
+   *   step(h, x) = mix13((h ^ x) + 0x9E3779B97F4A7C15)
+   *   mix13(z):  z = (z ^ (z >>> 30)) * 0xBF58476D1CE4E5B9; z = (z ^ (z >>> 27)) * 0x94D049BB133111EB;
+   *              return z ^ (z >>> 31)
    * </pre>
    *
-   * mix13 is a bijection with full avalanche, so rows that differ only in their last value never
-   * collide, and otherwise the hash behaves like a random function of the content.
+   * The value at position i goes to lane i mod 4: each lane starts at 0 and takes its values in
+   * order, {@code lane = step(lane, bits(v))}; the hash is then {@code step(step(step(step(0,
+   * lane0), lane1), lane2), lane3)}. The four lanes are independent chains, so the processor works
+   * on them in parallel. Each step is a bijection of its state for a fixed input and of its input
+   * for a fixed state, so rows that differ in a single value never collide; otherwise the hash
+   * behaves like a random function of the content.
    */
   public static long hash(double[] row) {
-    long h = 0L;
-    for (double v : row) {
-      h = mix13((h ^ bits(v)) + GAMMA);
+    long h0 = 0L;
+    long h1 = 0L;
+    long h2 = 0L;
+    long h3 = 0L;
+    int n = row.length;
+    int i = 0;
+    for (; i + 3 < n; i += 4) {
+      h0 = step(h0, bits(row[i]));
+      h1 = step(h1, bits(row[i + 1]));
+      h2 = step(h2, bits(row[i + 2]));
+      h3 = step(h3, bits(row[i + 3]));
     }
-    return h;
+    if (i < n) {
+      h0 = step(h0, bits(row[i++]));
+    }
+    if (i < n) {
+      h1 = step(h1, bits(row[i++]));
+    }
+    if (i < n) {
+      h2 = step(h2, bits(row[i]));
+    }
+    return step(step(step(step(0L, h0), h1), h2), h3);
+  }
+
+  private static long step(long h, long x) {
+    return mix13((h ^ x) + GAMMA);
   }
 
   private static long bits(double v) {
@@ -465,24 +490,39 @@ public final class RowSample implements Serializable {
     return out;
   }
 
+  /** Slots in canonical order: distinct hashes sorted, then each hash's entries by content. */
   private int[] canonicalOrder() {
-    Integer[] boxed = Arrays.stream(liveSlots()).boxed().toArray(Integer[]::new);
-    Arrays.sort(boxed, (a, b) -> {
-      int c = Long.compare(slotHash[a], slotHash[b]);
+    long[] hashes = Arrays.copyOf(heap, distinct);
+    Arrays.sort(hashes);
+    int[] out = new int[entries];
+    int n = 0;
+    for (long h : hashes) {
+      int from = n;
+      for (int s = tableSlot[find(h)]; s != NONE; s = slotNext[s]) {
+        out[n++] = s;
+      }
+      // Insertion sort by content within a hash: more than one entry only after a collision.
+      for (int a = from + 1; a < n; a++) {
+        int slot = out[a];
+        int b = a - 1;
+        while (b >= from && compareContent(slotRow[out[b]], slotRow[slot]) > 0) {
+          out[b + 1] = out[b];
+          b--;
+        }
+        out[b + 1] = slot;
+      }
+    }
+    return out;
+  }
+
+  private static int compareContent(double[] x, double[] y) {
+    for (int i = 0; i < x.length; i++) {
+      int c = Double.compare(x[i], y[i]);
       if (c != 0) {
         return c;
       }
-      double[] x = slotRow[a];
-      double[] y = slotRow[b];
-      for (int i = 0; i < width; i++) {
-        c = Double.compare(x[i], y[i]);
-        if (c != 0) {
-          return c;
-        }
-      }
-      return 0;
-    });
-    return Arrays.stream(boxed).mapToInt(Integer::intValue).toArray();
+    }
+    return 0;
   }
 
   // Serialization: the counts by default, then the entries in canonical order.

@@ -209,6 +209,11 @@ class RowSampleTest {
     assertThat(RowSample.hash(new double[] {-0.0, 1.0})).isEqualTo(RowSample.hash(new double[] {0.0, 1.0}));
     assertThat(RowSample.hash(new double[] {otherNan})).isEqualTo(RowSample.hash(new double[] {NAN}));
     assertThat(RowSample.hash(new double[] {1.0, 2.0})).isNotEqualTo(RowSample.hash(new double[] {2.0, 1.0}));
+    // Position matters in every lane and in the fold of the lanes: the 720 orders of six values
+    // hash to 720 different values.
+    java.util.Set<Long> orders = new java.util.HashSet<>();
+    permute(new double[] {1, 2, 3, 4, 5, 6}, 0, orders);
+    assertThat(orders).hasSize(720);
 
     RowSample sample = new RowSample(10, 2);
     sample.add(new double[] {-0.0, NAN});
@@ -225,6 +230,21 @@ class RowSampleTest {
     assertThat(Double.doubleToRawLongBits(rows[zero][1])).isEqualTo(0x7ff8000000000000L);
     assertThat(rows[1 - zero]).containsExactly(Double.NEGATIVE_INFINITY, Double.POSITIVE_INFINITY);
     assertThat(weights[1 - zero]).isEqualTo(1);
+  }
+
+  private static void permute(double[] values, int from, java.util.Set<Long> hashes) {
+    if (from == values.length) {
+      hashes.add(RowSample.hash(values));
+      return;
+    }
+    for (int i = from; i < values.length; i++) {
+      double t = values[from];
+      values[from] = values[i];
+      values[i] = t;
+      permute(values, from + 1, hashes);
+      values[i] = values[from];
+      values[from] = t;
+    }
   }
 
   // Inverse of the SplitMix64 output function (each xor-shift and odd multiplier is invertible),
@@ -253,11 +273,26 @@ class RowSampleTest {
     return unXorShift(z, 30);
   }
 
-  /** A row (a, b) different from {@code row} with the same hash. */
+  private static final long GAMMA = 0x9E3779B97F4A7C15L;
+
+  private static long mix13(long z) {
+    z = (z ^ (z >>> 30)) * 0xBF58476D1CE4E5B9L;
+    z = (z ^ (z >>> 27)) * 0x94D049BB133111EBL;
+    return z ^ (z >>> 31);
+  }
+
+  /**
+   * A row (a, b) different from {@code row} (of width 2) with the same hash, by running the
+   * documented construction backwards: for width 2 the hash is step(step(step(step(0, L0), L1), 0),
+   * 0) with L0 = step(0, bits(a)), L1 = step(0, bits(b)) and step(h, x) = mix13((h ^ x) + GAMMA).
+   */
   private static double[] collidingWith(double[] row) {
-    long target = unMix13(RowSample.hash(row)) - 0x9E3779B97F4A7C15L;
+    long beforeLast = unMix13(RowSample.hash(row)) - GAMMA; // state before the lane-3 step (x = 0)
+    long afterLane1 = unMix13(beforeLast) - GAMMA; // state before the lane-2 step (x = 0)
     for (double a = 1.0; ; a++) {
-      double b = Double.longBitsToDouble(target ^ RowSample.hash(new double[] {a}));
+      long afterLane0 = mix13(mix13(Double.doubleToLongBits(a) + GAMMA) + GAMMA);
+      long lane1 = (unMix13(afterLane1) - GAMMA) ^ afterLane0;
+      double b = Double.longBitsToDouble(unMix13(lane1) - GAMMA);
       if (!Double.isNaN(b) && b != 0.0 && a != row[0]) {
         return new double[] {a, b};
       }
