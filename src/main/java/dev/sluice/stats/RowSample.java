@@ -29,16 +29,17 @@ import java.util.Arrays;
  *
  * <p>Memory: at most {@code capacity * width} doubles for the kept rows (one more row for each
  * hash collision among kept rows, which for 64-bit hashes has a probability of about
- * {@code capacity * rows / 2^64}), plus about 60 bytes of bookkeeping per kept row (hash, weight,
- * collision link, heap and hash-table cells). Storage grows with the rows actually kept, so a
+ * {@code capacity * rows / 2^64}), plus up to about 100 bytes of bookkeeping per kept row (array
+ * header, hash, weight, collision link, heap cell and two to four hash-table cells). Storage grows with the rows actually kept, so a
  * small part costs little. With {@code width} 500 a capacity of 100,000 holds 400 MB of rows;
  * callers lower the capacity for wide tables.
  *
  * <p>Cost: a row whose hash is above the current threshold (the largest kept hash, once the
  * sample is full) costs its hash, one comparison and no allocation. Other rows cost a hash-table
- * look-up and, when new, a heap update; an evicted row's storage is reused by the next row kept.
- * Over a stream of n distinct rows about {@code capacity * (1 + ln(n / capacity))} rows take that
- * slower path.
+ * look-up and content comparison (a repeat of a kept row adds to its weight) and, when new, a
+ * heap update; an evicted row's storage is reused by the next row kept. Over a stream of n
+ * distinct rows, in an order that does not depend on their hashes, about {@code capacity * (1 +
+ * ln(n / capacity))} of them take that slower path in expectation.
  *
  * <p>Not thread-safe. Java serialization writes the kept rows, weights and counts only; the
  * look-up structures are rebuilt on reading.
