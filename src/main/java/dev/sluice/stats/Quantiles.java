@@ -62,9 +62,14 @@ public final class Quantiles {
     if (lo >= sorted.length - 1) {
       return sorted[sorted.length - 1];
     }
-    double fraction = h - lo;
-    double a = sorted[lo];
-    double b = sorted[lo + 1];
+    return between(sorted[lo], sorted[lo + 1], h - lo);
+  }
+
+  /**
+   * The point {@code fraction} of the way from order statistic a to the next one, b: type 7's
+   * interpolation step, shared by every path that computes it so that all give the same bits.
+   */
+  static double between(double a, double b, double fraction) {
     // Skipping the product keeps order statistics exact and equal infinite neighbours finite-safe.
     if (fraction == 0.0 || a == b) {
       return a;

@@ -1,0 +1,300 @@
+package dev.sluice.stats;
+
+import java.io.IOException;
+import java.io.ObjectOutputStream;
+import java.io.Serializable;
+import java.util.Arrays;
+
+/**
+ * One pass of an exact order-statistic search ({@link RankSearch}): counts of the values that fall
+ * below, inside and between a few value windows, and the values inside each window themselves.
+ *
+ * <p>Values are ordered by their sortable key ({@link #key}), a 64-bit integer that sorts like the
+ * double itself, with -0.0 equal to 0.0. The windows are disjoint, ascending, inclusive ranges of
+ * keys. They split the line into 2w + 1 regions: gap 0 below window 0, window 0, gap 1, ...,
+ * window w - 1, gap w. Every value adds one to its region's count. A window of a single key only
+ * counts; any other window holds the values that fall in it, up to {@code maxHeld} of them, and
+ * beyond that turns into a histogram of {@link #BUCKETS} equal ranges of keys, so that memory stays
+ * bounded whatever the data.
+ *
+ * <p>Counts, held values (as a multiset) and histograms do not depend on the order values arrive
+ * in or on how they are split into parts and merged, so neither does anything derived from them.
+ * Whether a window overflowed into a histogram can depend on the split (a part may overflow while
+ * the whole would not); the search stays exact either way and may need one more pass.
+ *
+ * <p>Memory: at most {@code maxHeld} doubles per window, or {@link #BUCKETS} longs once it
+ * overflowed. Only finite values may be added; the caller filters NaN, infinities and nulls.
+ */
+public final class OrderWindows implements Serializable {
+  private static final long serialVersionUID = 1L;
+  /** Number of equal key ranges a window's histogram splits it into. */
+  public static final int BUCKETS = 4096;
+
+  private final long[] lo;
+  private final long[] hi;
+  private final int maxHeld;
+  private final long[] counts;
+  private final double[][] held;
+  private final int[] heldSize;
+  private final long[][] buckets;
+  /** Windows whose held values are in ascending order (reset by every add and merge). */
+  private transient boolean[] sorted;
+
+  /**
+   * @param lo first key of each window, ascending
+   * @param hi last key of each window (inclusive), each below the next window's first key
+   * @param histogram windows that start as histograms (their values are known to be too many)
+   * @param maxHeld most values a window holds before it turns into a histogram, at least 1
+   * @throws IllegalArgumentException for windows that are empty, overlapping or out of order
+   */
+  public OrderWindows(long[] lo, long[] hi, boolean[] histogram, int maxHeld) {
+    if (lo.length != hi.length || lo.length != histogram.length) {
+      throw new IllegalArgumentException("Window bounds and flags differ in number: "
+          + lo.length + ", " + hi.length + ", " + histogram.length);
+    }
+    if (maxHeld < 1) {
+      throw new IllegalArgumentException("Cannot hold " + maxHeld + " values per window");
+    }
+    for (int i = 0; i < lo.length; i++) {
+      if (lo[i] > hi[i] || (i > 0 && lo[i] <= hi[i - 1])) {
+        throw new IllegalArgumentException("Window " + i + " [" + lo[i] + ", " + hi[i]
+            + "] is empty, or overlaps or precedes the window before it");
+      }
+    }
+    int w = lo.length;
+    this.lo = lo.clone();
+    this.hi = hi.clone();
+    this.maxHeld = maxHeld;
+    this.counts = new long[2 * w + 1];
+    this.held = new double[w][];
+    this.heldSize = new int[w];
+    this.buckets = new long[w][];
+    for (int i = 0; i < w; i++) {
+      if (lo[i] != hi[i]) {
+        if (histogram[i]) {
+          buckets[i] = new long[BUCKETS];
+        } else {
+          held[i] = new double[16];
+        }
+      }
+    }
+  }
+
+  /** A fresh, empty accumulator over the same windows (each task of a pass starts from one). */
+  public OrderWindows emptyCopy() {
+    boolean[] histogram = new boolean[lo.length];
+    for (int i = 0; i < lo.length; i++) {
+      histogram[i] = buckets[i] != null;
+    }
+    return new OrderWindows(lo, hi, histogram, maxHeld);
+  }
+
+  /** The sortable key of a double: signed order of keys is numeric order, -0.0 maps as 0.0. */
+  public static long key(double x) {
+    long bits = Double.doubleToRawLongBits(x + 0.0);
+    return bits ^ ((bits >> 63) & 0x7fffffffffffffffL);
+  }
+
+  /** The double whose key is {@code k} (the inverse of {@link #key} on non-NaN values). */
+  public static double value(long k) {
+    return Double.longBitsToDouble(k ^ ((k >> 63) & 0x7fffffffffffffffL));
+  }
+
+  /** Adds one finite value (not checked: this is the per-value path). */
+  public void add(double x) {
+    long k = key(x);
+    int w = windowAtOrBelow(k);
+    if (w < 0) {
+      counts[0]++;
+    } else if (k > hi[w]) {
+      counts[2 * w + 2]++;
+    } else {
+      counts[2 * w + 1]++;
+      if (held[w] != null) {
+        hold(w, x + 0.0);
+      } else if (buckets[w] != null) {
+        buckets[w][bucketOf(w, k)]++;
+      }
+    }
+  }
+
+  /** The last window whose first key is at most k, or -1. */
+  private int windowAtOrBelow(long k) {
+    if (lo.length <= 8) {
+      // A few windows: count them without branches, which the processor cannot mispredict.
+      int n = 0;
+      for (long first : lo) {
+        n += first <= k ? 1 : 0;
+      }
+      return n - 1;
+    }
+    int a = 0;
+    int b = lo.length - 1;
+    int found = -1;
+    while (a <= b) {
+      int mid = (a + b) >>> 1;
+      if (lo[mid] <= k) {
+        found = mid;
+        a = mid + 1;
+      } else {
+        b = mid - 1;
+      }
+    }
+    return found;
+  }
+
+  private void hold(int w, double x) {
+    if (sorted != null) {
+      sorted[w] = false;
+    }
+    double[] h = held[w];
+    int n = heldSize[w];
+    if (n == maxHeld) {
+      toHistogram(w);
+      buckets[w][bucketOf(w, key(x))]++;
+      return;
+    }
+    if (n == h.length) {
+      h = Arrays.copyOf(h, (int) Math.min(maxHeld, 2L * h.length));
+      held[w] = h;
+    }
+    h[n] = x;
+    heldSize[w] = n + 1;
+  }
+
+  private void toHistogram(int w) {
+    long[] b = new long[BUCKETS];
+    for (int i = 0; i < heldSize[w]; i++) {
+      b[bucketOf(w, key(held[w][i]))]++;
+    }
+    buckets[w] = b;
+    held[w] = null;
+    heldSize[w] = 0;
+  }
+
+  /** Width of one histogram bucket of window w, in keys (unsigned; at least 1). */
+  private long bucketWidth(int w) {
+    return Long.divideUnsigned(hi[w] - lo[w], BUCKETS) + 1;
+  }
+
+  private int bucketOf(int w, long k) {
+    return (int) Long.divideUnsigned(k - lo[w], bucketWidth(w));
+  }
+
+  /**
+   * Adds the other part's counts and values into this one and returns this.
+   *
+   * @throws IllegalArgumentException when the other part has different windows
+   */
+  public OrderWindows merge(OrderWindows other) {
+    if (!Arrays.equals(lo, other.lo) || !Arrays.equals(hi, other.hi)) {
+      throw new IllegalArgumentException("Cannot merge counts kept over different windows");
+    }
+    for (int i = 0; i < counts.length; i++) {
+      counts[i] += other.counts[i];
+    }
+    for (int w = 0; w < lo.length; w++) {
+      if (lo[w] == hi[w]) {
+        continue;
+      }
+      if (other.buckets[w] != null && buckets[w] == null) {
+        toHistogram(w);
+      }
+      if (buckets[w] != null) {
+        if (other.buckets[w] != null) {
+          for (int b = 0; b < BUCKETS; b++) {
+            buckets[w][b] += other.buckets[w][b];
+          }
+        } else {
+          for (int i = 0; i < other.heldSize[w]; i++) {
+            buckets[w][bucketOf(w, key(other.held[w][i]))]++;
+          }
+        }
+        continue;
+      }
+      for (int i = 0; i < other.heldSize[w]; i++) {
+        hold(w, other.held[w][i]);
+        if (buckets[w] != null) {
+          for (int j = i + 1; j < other.heldSize[w]; j++) {
+            buckets[w][bucketOf(w, key(other.held[w][j]))]++;
+          }
+          break;
+        }
+      }
+    }
+    return this;
+  }
+
+  /** Number of windows. */
+  public int windows() {
+    return lo.length;
+  }
+
+  /** Values counted in all regions. */
+  public long total() {
+    long n = 0;
+    for (long c : counts) {
+      n += c;
+    }
+    return n;
+  }
+
+  /** Count of region r: even r are gaps (r / 2 windows below), odd r are window (r - 1) / 2. */
+  public long regionCount(int r) {
+    return counts[r];
+  }
+
+  public long firstKey(int w) {
+    return lo[w];
+  }
+
+  public long lastKey(int w) {
+    return hi[w];
+  }
+
+  /** True when window w only counts (a single key) or held every value that fell in it. */
+  public boolean resolved(int w) {
+    return buckets[w] == null;
+  }
+
+  /**
+   * Value number i (0-based) in ascending order of those held in window w; the held values are
+   * sorted in place on first use.
+   */
+  public double heldValue(int w, int i) {
+    if (sorted == null) {
+      sorted = new boolean[lo.length];
+    }
+    if (!sorted[w]) {
+      Arrays.sort(held[w], 0, heldSize[w]);
+      sorted[w] = true;
+    }
+    return held[w][i];
+  }
+
+  /** The histogram of an overflowed window w (a copy), or null. */
+  public long[] histogram(int w) {
+    return buckets[w] == null ? null : buckets[w].clone();
+  }
+
+  /** First key of bucket b of window w. */
+  public long bucketFirstKey(int w, int b) {
+    return lo[w] + b * bucketWidth(w);
+  }
+
+  /** Last key of bucket b of window w (inclusive). */
+  public long bucketLastKey(int w, int b) {
+    long last = bucketFirstKey(w, b) + bucketWidth(w) - 1;
+    // The last bucket may end short of a full width, and the sum may wrap past the top key.
+    return Long.compareUnsigned(last - lo[w], hi[w] - lo[w]) > 0 ? hi[w] : last;
+  }
+
+  private void writeObject(ObjectOutputStream out) throws IOException {
+    for (int w = 0; w < held.length; w++) {
+      if (held[w] != null && held[w].length > heldSize[w]) {
+        held[w] = Arrays.copyOf(held[w], Math.max(heldSize[w], 1));
+      }
+    }
+    out.defaultWriteObject();
+  }
+}
