@@ -155,13 +155,20 @@ class EdgeCaseTest {
   }
 
   @Test
-  void anEmptyKllSketchGivesNoQuartilesRatherThanAnError(SparkSession spark) {
-    Dataset<Row> data = doubles(spark, "x", null, null, Double.NaN, 1.0);
-    Sluice.Fit f = fit(data, "quantiles.exact-max-count=0", "quantiles.sketch=kll",
+  void aColumnWithNoUsableValuesGivesNoQuartilesOnALargeTableToo(SparkSession spark) {
+    // Over max-held-values rows the quartile search starts from a pilot; with nothing usable
+    // in it or in the column, the quartiles are undefined rather than an error.
+    Double[] values = new Double[3_000];
+    java.util.Arrays.fill(values, 1.0);
+    values[7] = null;
+    values[8] = Double.NaN;
+    Dataset<Row> data = doubles(spark, "x", values);
+    Sluice.Fit f = fit(data, "quantiles.max-held-values=1000", "quantiles.pilot-rows=1000",
         "columns.x.valid-min=2");
     var p = f.profile().column("x").orElseThrow();
-    assertThat(p.quantileMethod()).isEqualTo("approx-kll");
+    assertThat(p.quantileMethod()).isEqualTo("exact-type7");
     assertThat(p.usable()).isZero();
+    assertThat(p.invalid()).isEqualTo(2_998);
     assertThat(Double.isNaN(p.median())).isTrue();
   }
 }

@@ -26,9 +26,9 @@ import org.apache.spark.sql.SparkSession;
 /**
  * Side-by-side timings in one Spark session, interleaved over repetitions: a plain scan that sums
  * every column, a plain Parquet copy, the hand-written MLlib pipeline, {@code survey} and {@code
- * run} with the default GK quantile sketch, and both again with {@code quantiles.sketch = kll}.
- * Prints the median of each and the ratios, plus the largest rank error of the fence quartiles
- * against the data's exact ranks, and writes them as JSON.
+ * run}. Prints the median of each and the ratios, plus the largest rank error of the fence
+ * quartiles against the data's exact ranks (Sluice's quartiles are exact: at most 1 / n), and
+ * writes them as JSON.
  *
  * <pre>
  * Benchmark [--rows N] [--columns P] [--reps R] [--data DIR] [--out FILE] [--quick | --growth]
@@ -79,7 +79,7 @@ public final class Benchmark {
     Path table = ensureTable(spark, o.rows(), o.columns(), o);
     Path work = o.out().getParent().resolve("work");
     Map<String, List<Double>> times = new LinkedHashMap<>();
-    for (String name : List.of("scan", "copy", "peer", "survey", "run", "survey_kll", "run_kll")) {
+    for (String name : List.of("scan", "copy", "peer", "survey", "run")) {
       times.put(name, new ArrayList<>());
     }
     Dataset<Row> input = spark.read().parquet(table.toString());
@@ -91,12 +91,9 @@ public final class Benchmark {
           work.resolve("peer").toString())));
       times.get("survey").add(time(() -> sluice("survey", table, work.resolve("survey"))));
       times.get("run").add(time(() -> sluice("run", table, work.resolve("run"))));
-      times.get("survey_kll").add(time(() -> sluice("survey", table, work.resolve("survey-kll"), KLL)));
-      times.get("run_kll").add(time(() -> sluice("run", table, work.resolve("run-kll"), KLL)));
       System.out.println("bench: repetition " + (rep + 1) + " of " + o.reps() + ": " + last(times));
     }
-    Map<String, Object> result = summarise(o, times, rankError(spark, input, work.resolve("run")),
-        rankError(spark, input, work.resolve("run-kll")));
+    Map<String, Object> result = summarise(o, times, rankError(spark, input, work.resolve("run")));
     Files.createDirectories(o.out().getParent());
     Outputs.JSON.writeValue(o.out().toFile(), result);
     System.out.println(Outputs.JSON.writeValueAsString(result));
@@ -153,12 +150,9 @@ public final class Benchmark {
     input.agg(sums.get(0), sums.subList(1, sums.size()).toArray(new Column[0])).first();
   }
 
-  private static final String[] KLL = {"--set", "quantiles.sketch=kll"};
-
-  private static void sluice(String command, Path table, Path out, String... extra) {
+  private static void sluice(String command, Path table, Path out) {
     List<String> args = new ArrayList<>(List.of(command, "--input", table.toString(), "--output",
         out.toString(), "--replace"));
-    args.addAll(Arrays.asList(extra));
     int code = Main.run(args.toArray(new String[0]), new PrintStream(PrintStream.nullOutputStream()),
         new PrintStream(PrintStream.nullOutputStream()));
     if (code != 0) {
@@ -200,19 +194,15 @@ public final class Benchmark {
   }
 
   private static Map<String, Object> summarise(
-      Options o, Map<String, List<Double>> times, double rankError, double kllRankError) {
+      Options o, Map<String, List<Double>> times, double rankError) {
     Map<String, Double> medians = medians(times);
     Map<String, Object> r = header(o, medians);
     Map<String, Double> ratios = new LinkedHashMap<>();
     ratios.put("run_over_copy", medians.get("run") / medians.get("copy"));
     ratios.put("survey_over_scan", medians.get("survey") / medians.get("scan"));
     ratios.put("peer_over_run", medians.get("peer") / medians.get("run"));
-    ratios.put("run_kll_over_copy", medians.get("run_kll") / medians.get("copy"));
-    ratios.put("survey_kll_over_scan", medians.get("survey_kll") / medians.get("scan"));
-    ratios.put("peer_over_run_kll", medians.get("peer") / medians.get("run_kll"));
     r.put("ratios", ratios);
     r.put("largest_fence_quartile_rank_error", rankError);
-    r.put("largest_fence_quartile_rank_error_kll", kllRankError);
     r.put("seconds", times);
     return r;
   }

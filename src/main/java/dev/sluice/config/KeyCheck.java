@@ -10,6 +10,7 @@ import java.util.ArrayList;
 import java.util.Collection;
 import java.util.Comparator;
 import java.util.List;
+import java.util.Map;
 import java.util.Optional;
 import java.util.TreeSet;
 import java.util.function.Function;
@@ -21,6 +22,14 @@ import java.util.function.Function;
 final class KeyCheck {
   private static final List<String> SPARK_CONF = List.of("sluice", "spark", "conf");
   private static final List<String> COLUMNS = List.of("sluice", "columns");
+
+  /** Settings that earlier versions had, with what became of them. */
+  private static final Map<String, String> RETIRED = Map.of(
+      "sluice.quantiles.exact-max-count", "quantiles are now exact on tables of any size",
+      "sluice.quantiles.relative-error", "quantiles are now exact on tables of any size",
+      "sluice.quantiles.sketch", "quantiles are now exact on tables of any size",
+      "sluice.quantiles.rank-grid-size",
+      "Spearman's rho now comes from ranks in a row sample (sluice.collinearity.spearman-rows)");
 
   /** Column blocks start after sluice.columns.NAME. */
   private static final int COLUMN_DEPTH = 3;
@@ -82,6 +91,11 @@ final class KeyCheck {
       List<String> child = ConfigTree.append(path, key);
       ConfigValue expected = reference.get(key);
       if (expected == null) {
+        String retired = RETIRED.get(ConfigUtil.joinPath(child));
+        if (retired != null) {
+          throw SluiceException.usage("Setting " + ConfigUtil.joinPath(child)
+              + " is no longer used: " + retired + "; remove it");
+        }
         List<String> leaf = firstLeaf(child, object.get(key));
         Optional<List<String>> fixed =
             closest(key, reference.keySet()).map(near -> replaced(leaf, path.size(), near));

@@ -1,15 +1,13 @@
 package dev.sluice.config;
 
 /**
- * @param exactMaxCount quantiles are exact (type 7) when the table has at most this many rows
- * @param relativeError rank error of the approximate quantiles
- * @param rankGridSize number of intervals of the quantile grid used for ranks (Spearman)
- * @param sketch the sketch behind approximate quantiles
+ * How exact quantiles are searched for (they are exact whatever these are; these decide memory and
+ * the number of passes).
+ *
+ * @param pilotRows rows read from the start of a few spread partitions to place the windows whose
+ *     values the profile keeps, on tables too large to keep a whole column
+ * @param maxHeldValues most values one search window keeps in memory per task before it turns
+ *     into a histogram (and the search takes one more pass); tables with at most this many rows
+ *     keep whole columns and need no pilot
  */
-public record QuantileSettings(
-    long exactMaxCount, double relativeError, int rankGridSize, QuantileSketch sketch) {
-  /** Greenwald-Khanna, the deterministic default. */
-  public QuantileSettings(long exactMaxCount, double relativeError, int rankGridSize) {
-    this(exactMaxCount, relativeError, rankGridSize, QuantileSketch.GK);
-  }
-}
+public record QuantileSettings(int pilotRows, int maxHeldValues) {}

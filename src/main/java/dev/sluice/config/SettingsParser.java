@@ -15,7 +15,6 @@ import java.util.OptionalDouble;
 import java.util.Set;
 import java.util.TreeMap;
 import java.util.TreeSet;
-import org.apache.datasketches.kll.KllSketch;
 
 /**
  * Reads a resolved, key-checked {@code sluice} tree into {@link Settings}, checking each value's
@@ -95,28 +94,11 @@ final class SettingsParser {
   }
 
   private static QuantileSettings quantiles(ValueReader r) {
-    long exactMaxCount =
-        r.whole(
-            "quantiles.exact-max-count",
-            0,
-            Long.MAX_VALUE,
-            "expected a whole number of at least 0");
-    double relativeError =
-        r.number(
-            "quantiles.relative-error",
-            x -> x > 0 && x < 0.5,
-            "expected a number above 0 and below 0.5");
-    int gridSize =
-        (int)
-            r.whole(
-                "quantiles.rank-grid-size", 2, 100_000, "expected a whole number from 2 to 100000");
-    QuantileSketch sketch = r.choice("quantiles.sketch", QuantileSketch.class);
-    double kllBest = KllSketch.getNormalizedRankError(65535, false);
-    if (sketch == QuantileSketch.KLL && relativeError < kllBest) {
-      throw r.invalid("quantiles.relative-error", String.format(Locale.ROOT,
-          "expected at least %.6f with sketch = kll (the rank error of its largest k, 65535)", kllBest));
-    }
-    return new QuantileSettings(exactMaxCount, relativeError, gridSize, sketch);
+    int pilotRows = (int) r.whole("quantiles.pilot-rows", 1_000, 100_000_000,
+        "expected a whole number from 1000 to 100000000");
+    int maxHeld = (int) r.whole("quantiles.max-held-values", 1_000, 100_000_000,
+        "expected a whole number from 1000 to 100000000");
+    return new QuantileSettings(pilotRows, maxHeld);
   }
 
   private static CollinearitySettings collinearity(ValueReader r) {
@@ -136,12 +118,14 @@ final class SettingsParser {
                 2,
                 Integer.MAX_VALUE,
                 "expected a whole number of at least 2");
+    int spearmanRows = (int) r.whole("collinearity.spearman-rows", 1_000, 10_000_000,
+        "expected a whole number from 1000 to 10000000");
     if (drop && !enabled) {
       // Nothing is suggested with the analysis off: the drop would be silently ignored.
       throw r.invalid("collinearity.drop",
           "expected false while sluice.collinearity.enabled = false (there is no suggested drop set)");
     }
-    return new CollinearitySettings(enabled, pairThreshold, vifLimit, drop, maxColumns);
+    return new CollinearitySettings(enabled, pairThreshold, vifLimit, drop, maxColumns, spearmanRows);
   }
 
   /** Each named column: its own block over the defaults, merged key by key at every depth. */

@@ -2,17 +2,18 @@ package dev.sluice.plan;
 
 import dev.sluice.config.CollinearitySettings;
 import dev.sluice.config.Settings;
-import dev.sluice.profile.ColumnProfile;
 import dev.sluice.profile.TableProfile;
 import dev.sluice.stats.Collinearity;
 import dev.sluice.stats.Published;
-import dev.sluice.stats.QuantileGrid;
+import dev.sluice.stats.NumericSteps;
+import dev.sluice.stats.RankCorrelation;
+import dev.sluice.stats.RowSample;
 import java.util.ArrayList;
 import java.util.List;
 
 /**
  * Correlations, VIF and the suggested drop set on the treated numeric columns after imputation,
- * from the pass-2 co-moments. Pearson r is unchanged by the affine scaling step, so it is taken
+ * from the pass-2 co-moments (Pearson) and the pass-1 row sample (Spearman). Pearson r is unchanged by the affine scaling step, so it is taken
  * before scaling. Columns with zero variance, or dropped for missing values, are left out.
  */
 final class CollinearityPlanner {
@@ -31,15 +32,12 @@ final class CollinearityPlanner {
     }
     List<String> all = stats.comomentColumns();
     double[] fills = new double[all.size()];
-    double[] rankFills = new double[all.size()];
     for (int i = 0; i < all.size(); i++) {
-      ColumnPlan cp = find(plans, all.get(i));
-      Double fill = cp.missing().fillNumber();
+      Double fill = find(plans, all.get(i)).missing().fillNumber();
       fills[i] = fill == null ? Double.NaN : fill;
-      rankFills[i] = fill == null ? Double.NaN : rankOf(profile, cp, fill);
     }
     double[][] pearson = rounded(stats.pearson().correlation(fills));
-    double[][] spearman = rounded(stats.spearman().correlation(rankFills));
+    double[][] spearman = rounded(spearman(profile, plans, all));
     List<Integer> keep = new ArrayList<>();
     for (int i = 0; i < all.size(); i++) {
       if (find(plans, all.get(i)).kept() && !Double.isNaN(pearson[i][i])) {
@@ -77,22 +75,34 @@ final class CollinearityPlanner {
         cs.drop() ? drops : List.of(), cs.pairThreshold(), cs.vifLimit());
   }
 
-  /** The mid-rank a filled value takes among the treated values, for Spearman. */
-  static double rankOf(TableProfile profile, ColumnPlan cp, double fill) {
-    ColumnProfile c = profile.column(cp.name()).orElseThrow();
-    QuantileGrid g = c.grid();
-    if (g == null) {
-      return Double.NaN;
+  /**
+   * Spearman's rho after imputation, on the canonical row sample of pass 1 (the whole table when
+   * it has no more rows than the sample holds): each sampled value goes through the plan's
+   * validity, outlier and fill steps, exactly as the writing pass would treat it.
+   */
+  static double[][] spearman(TableProfile profile, List<ColumnPlan> plans, List<String> columns) {
+    int p = columns.size();
+    RowSample sample = profile.sample();
+    if (sample == null) {
+      double[][] none = new double[p][p];
+      for (double[] row : none) {
+        java.util.Arrays.fill(row, Double.NaN);
+      }
+      return none;
     }
-    return g.midRankAfterCap(fill, capLower(cp.outliers()), capUpper(cp.outliers()));
-  }
-
-  static double capLower(OutlierPlan o) {
-    return o.action().equals("cap") && o.lower() != null ? o.lower() : Double.NEGATIVE_INFINITY;
-  }
-
-  static double capUpper(OutlierPlan o) {
-    return o.action().equals("cap") && o.upper() != null ? o.upper() : Double.POSITIVE_INFINITY;
+    double[][] raw = sample.rows();
+    double[][] treated = new double[raw.length][p];
+    for (int i = 0; i < p; i++) {
+      ColumnPlan cp = find(plans, columns.get(i));
+      int at = profile.sampleColumns().indexOf(cp.name());
+      NumericSteps steps = cp.outliers().steps(cp.validMin(), cp.validMax());
+      Double fill = cp.missing().fillNumber();
+      for (int r = 0; r < raw.length; r++) {
+        double t = steps.treated(raw[r][at]);
+        treated[r][i] = Double.isNaN(t) && fill != null ? fill : t;
+      }
+    }
+    return RankCorrelation.spearman(treated, sample.weights());
   }
 
   /** Correlations at published precision: the same whatever order Spark merged the sums in. */

@@ -1,5 +1,7 @@
 package dev.sluice.plan;
 
+import dev.sluice.stats.NumericSteps;
+
 /**
  * The outlier decision of one column. Limits are null where there is none on that side.
  *
@@ -23,6 +25,18 @@ public record OutlierPlan(
 
   public boolean active() {
     return lower != null || upper != null;
+  }
+
+  /** Steps 2 and 3 for one value in plain Java: the given validity bounds, then this action. */
+  public NumericSteps steps(Double validMin, Double validMax) {
+    NumericSteps.Action a = switch (action) {
+      case "cap" -> NumericSteps.Action.CAP;
+      case "set-missing", "quarantine" -> NumericSteps.Action.REMOVE;
+      default -> NumericSteps.Action.LEAVE;
+    };
+    return new NumericSteps(validMin == null ? Double.NEGATIVE_INFINITY : validMin,
+        validMax == null ? Double.POSITIVE_INFINITY : validMax, a,
+        lower == null ? Double.NEGATIVE_INFINITY : lower, upper == null ? Double.POSITIVE_INFINITY : upper);
   }
 
   public static OutlierPlan none(String reason) {

@@ -9,7 +9,7 @@ import java.util.Optional;
  *
  * @param formatVersion version of this plan's JSON layout
  * @param rowsFitted rows of the table the plan was fitted on
- * @param quantileMethod exact-type7 or approx-gk
+ * @param quantileMethod exact-type7 (Hyndman and Fan type 7, exact)
  * @param rankError bound on the normalized rank error of the quantiles (0 when exact)
  */
 public record Plan(

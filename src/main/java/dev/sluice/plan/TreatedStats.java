@@ -6,18 +6,16 @@ import java.util.Map;
 
 /**
  * Pass-2 figures: statistics of each treated column after the validity and outlier steps (and
- * before imputation), plus the co-moments from which correlations after imputation follow.
+ * before imputation), plus the co-moments from which Pearson correlations after imputation follow.
  *
  * @param columns per treated column, by name
  * @param comomentColumns the columns of the co-moment accumulators, in their order
- * @param pearson sums of products of the values
- * @param spearman sums of products of the values' mid-ranks
+ * @param pearson sums of products of the values (null when the analysis does not run)
  */
 public record TreatedStats(
     Map<String, ColumnStats> columns,
     List<String> comomentColumns,
-    CoMoments pearson,
-    CoMoments spearman) {
+    CoMoments pearson) {
 
   /**
    * @param present values left after validity and outlier steps

@@ -2,7 +2,6 @@ package dev.sluice.profile;
 
 import dev.sluice.config.Role;
 import dev.sluice.stats.PowerScale;
-import dev.sluice.stats.QuantileGrid;
 
 /**
  * Pass-1 figures of one column. Numeric figures are taken over the usable values (finite and
@@ -11,9 +10,8 @@ import dev.sluice.stats.QuantileGrid;
  * @param nulls null entries in the input (NaN and infinite values are counted apart)
  * @param invalid finite values outside the validity bounds
  * @param usable finite values within the bounds: the count the statistics are taken over
- * @param grid the sampled quantile function (probabilities 0..1) of the usable values, or null
- * @param quantileMethod how q1, median, q3 and the grid were computed
- * @param rankError the bound on the normalized rank error of those quantiles (0 when exact)
+ * @param quantileMethod how q1, median and q3 were computed: always exact type 7 now
+ * @param rankError the bound on the normalized rank error of those quantiles: 0, exact
  * @param mad median absolute deviation from the median (NaN unless the mad method needs it)
  * @param distinct approximate distinct count of categorical and identifier columns (-1 otherwise)
  * @param topValue the most frequent value of a categorical column as text (null if none)
@@ -37,7 +35,6 @@ public record ColumnProfile(
     double q1,
     double median,
     double q3,
-    QuantileGrid grid,
     String quantileMethod,
     double rankError,
     double mad,
@@ -46,6 +43,8 @@ public record ColumnProfile(
     long topCount,
     String minText,
     String maxText) {
+  /** The quantile method of every measured column: Hyndman and Fan type 7, exact. */
+  public static final String EXACT_TYPE7 = "exact-type7";
 
   public double nullRate() {
     return rows == 0 ? Double.NaN : (double) nulls / rows;
@@ -71,19 +70,5 @@ public record ColumnProfile(
    */
   public double momentScale() {
     return PowerScale.forMagnitude(Math.max(Math.abs(min), Math.abs(max)));
-  }
-
-  public ColumnProfile withMoments(double newMean, double newStddev) {
-    return new ColumnProfile(
-        name, type, kind, role, rows, nulls, nan, infinite, invalid, usable, min, max, newMean,
-        newStddev, q1, median, q3, grid, quantileMethod, rankError, mad, distinct, topValue,
-        topCount, minText, maxText);
-  }
-
-  public ColumnProfile withMad(double newMad) {
-    return new ColumnProfile(
-        name, type, kind, role, rows, nulls, nan, infinite, invalid, usable, min, max, mean,
-        stddev, q1, median, q3, grid, quantileMethod, rankError, newMad, distinct, topValue,
-        topCount, minText, maxText);
   }
 }

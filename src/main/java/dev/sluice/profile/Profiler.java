@@ -1,212 +1,257 @@
 package dev.sluice.profile;
 
-import static dev.sluice.profile.ValueExprs.asDouble;
-import static org.apache.spark.sql.functions.abs;
-import static org.apache.spark.sql.functions.approx_count_distinct;
-import static org.apache.spark.sql.functions.avg;
-import static org.apache.spark.sql.functions.call_function;
-import static org.apache.spark.sql.functions.count;
-import static org.apache.spark.sql.functions.count_if;
-import static org.apache.spark.sql.functions.lit;
-import static org.apache.spark.sql.functions.stddev_samp;
-
 import dev.sluice.config.ColumnSettings;
 import dev.sluice.config.OutlierMethod;
 import dev.sluice.config.Role;
 import dev.sluice.config.Settings;
-import dev.sluice.io.Names;
-import dev.sluice.stats.PowerScale;
-import dev.sluice.stats.QuantileGrid;
+import dev.sluice.stats.NumericSteps;
+import dev.sluice.stats.OrderWindows;
+import dev.sluice.stats.RankSearch;
+import dev.sluice.stats.ScaledMoments;
+import java.time.Instant;
+import java.time.LocalDate;
+import java.time.LocalDateTime;
+import java.time.ZoneOffset;
+import java.time.temporal.ChronoUnit;
 import java.util.ArrayList;
-import java.util.Arrays;
+import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Map;
-import org.apache.spark.sql.Column;
+import org.apache.spark.api.java.JavaRDD;
 import org.apache.spark.sql.Dataset;
 import org.apache.spark.sql.Row;
+import org.apache.spark.sql.Column;
 import org.apache.spark.sql.functions;
-import org.apache.spark.sql.types.StructField;
+import org.apache.spark.sql.SparkSession;
+import org.apache.spark.sql.catalyst.InternalRow;
 
 /**
- * Pass 1: one aggregate over the table computes every column's counts, moments and quantiles.
+ * Pass 1: one loop over the table computes every column's counts, moments, exact quartiles,
+ * distinct counts and ranges, and the row sample for rank correlations.
  *
- * <p>A row count runs first (served from file footers for Parquet and ORC) to choose between
- * exact and approximate quantiles. Two kinds of column need a figure from that aggregate before
- * they can be finished, and cost one more aggregate, shared by all of them: columns using the MAD
- * method (the MAD needs the median), and columns of very large magnitude, whose mean and standard
- * deviation are taken again on values scaled by a power of two (see {@link PowerScale}) because
- * their sums of squares overflow.
+ * <p>Quartiles are exact type 7 whatever the table's size ({@link RankSearch}). A row count runs
+ * first (served from file footers for Parquet and ORC); on a table too large to hold a column in
+ * memory, a pilot sample of the first rows of a few spread partitions places the windows whose
+ * values the pass keeps. A pilot that placed them badly costs an extra pass, never accuracy.
+ * Columns using the MAD method cost one more pass, shared by all of them, because the MAD is a
+ * median of distances from the median.
  */
 public final class Profiler {
+  /** The quantiles pass 1 finds for every measured column. */
+  static final double[] QUARTILES = {0.25, 0.5, 0.75};
+  /** Partitions the pilot samples, at most. */
+  static final int PILOT_PARTITIONS = 16;
+  /** Most values the pilot and the row sample hold, over all their columns. */
+  static final int VALUE_BUDGET = 4_000_000;
+
   private Profiler() {}
 
   /** Profiles {@code data}; {@code roles} gives each column's effective role. */
   public static TableProfile profile(Dataset<Row> data, Settings settings, Map<String, Role> roles) {
     long rows = data.count();
-    QuantileSpec spec = specFor(rows, settings);
-    Aggregates aggs = new Aggregates();
-    int rowsAt = aggs.add(count(lit(1)));
-    List<Slots> slots = new ArrayList<>();
-    for (StructField f : data.schema().fields()) {
-      Role role = roles.getOrDefault(f.name(), Role.KEEP);
-      slots.add(Slots.plan(aggs, f, role, settings.column(f.name()), spec));
+    ProfileLayout layout = ProfileLayout.of(data.schema(), roles);
+    int[] measured = layout.measuredColumns();
+    int maxHeld = settings.quantiles().maxHeldValues();
+    JavaRDD<InternalRow> numeric = RowScan.rows(data, layout.measuredProjection());
+    double[][] pilot = rows > maxHeld && measured.length > 0
+        ? RowScan.pilot(numeric, measured.length, pilotRows(settings, measured.length), PILOT_PARTITIONS)
+        : new double[measured.length][0];
+    NumericSteps[] validity = new NumericSteps[measured.length];
+    List<RankSearch> searches = new ArrayList<>();
+    OrderWindows[] first = new OrderWindows[measured.length];
+    Map<String, double[]> pilotByName = new LinkedHashMap<>();
+    for (int j = 0; j < measured.length; j++) {
+      String name = layout.names[measured[j]];
+      ColumnSettings cs = settings.column(name);
+      validity[j] = NumericSteps.validity(boxed(cs.validMin()), boxed(cs.validMax()));
+      double[] usable = usable(pilot[j], validity[j]);
+      pilotByName.put(name, pilot[j]);
+      RankSearch search = new RankSearch(QUARTILES, maxHeld);
+      first[j] = search.firstPlan(usable, expected(rows, usable.length, pilot[j].length));
+      searches.add(search);
     }
-    Row result = aggs.run(data);
-    long counted = Aggregates.longAt(result, rowsAt);
+    int[] sampled = sampledColumns(layout, measured, settings);
+    int sampleRows = Math.min(settings.collinearity().spearmanRows(),
+        Math.max(1_000, VALUE_BUDGET / Math.max(1, sampled.length)));
+    ProfileAccumulator proto = new ProfileAccumulator(layout, validity, first, sampled, sampleRows,
+        ProfileAccumulator.sampleCut(sampleRows, rows));
+    ProfileAccumulator acc = RowScan.fold(RowScan.rows(data, layout.projection()), proto::emptyCopy);
+    List<SearchPass.Target> targets = new ArrayList<>();
+    for (int j = 0; j < measured.length; j++) {
+      searches.get(j).absorb(acc.windows[j]);
+      targets.add(new SearchPass.Target(j, validity[j], false, Double.NaN));
+    }
+    SearchPass.complete(numeric, targets, searches, List.of());
+    double[] mad = mads(numeric, layout, measured, settings, validity, searches, pilot, rows);
+    String[] texts = temporalTexts(data.sparkSession(), layout, acc);
     List<ColumnProfile> columns = new ArrayList<>();
-    for (Slots s : slots) {
-      columns.add(s.read(result, counted, spec));
+    int j = 0;
+    for (int i = 0; i < layout.names.length; i++) {
+      if (layout.reads[i] == ProfileLayout.Read.MEASURED) {
+        columns.add(measuredProfile(layout, i, acc, j, searches.get(j).quantiles(), mad[j], rows));
+        j++;
+      } else {
+        columns.add(otherProfile(layout, i, acc, rows, texts[2 * i], texts[2 * i + 1]));
+      }
     }
-    columns = finish(data, columns, settings, spec);
-    return new TableProfile(counted, List.copyOf(columns), spec.exact());
+    List<String> sampleNames = new ArrayList<>();
+    for (int s : sampled) {
+      sampleNames.add(layout.names[measured[s]]);
+    }
+    return new TableProfile(acc.rows, List.copyOf(columns), sampleNames, acc.sample,
+        pilotByName);
   }
 
-  static QuantileSpec specFor(long rows, Settings settings) {
-    var q = settings.quantiles();
-    return new QuantileSpec(rows <= q.exactMaxCount(), q.relativeError(), q.rankGridSize(), q.sketch());
+  private static Double boxed(java.util.OptionalDouble d) {
+    return d.isPresent() ? d.getAsDouble() : null;
+  }
+
+  /** Pilot rows: the configured number, fewer on wide tables so the pilot stays in budget. */
+  static int pilotRows(Settings settings, int columns) {
+    return Math.max(1_000, Math.min(settings.quantiles().pilotRows(), VALUE_BUDGET / Math.max(1, columns)));
+  }
+
+  /** The pilot's values that pass the validity step. */
+  static double[] usable(double[] raw, NumericSteps steps) {
+    double[] out = new double[raw.length];
+    int n = 0;
+    for (double x : raw) {
+      double v = steps.valid(x);
+      if (!Double.isNaN(v)) {
+        out[n++] = v;
+      }
+    }
+    return java.util.Arrays.copyOf(out, n);
+  }
+
+  /** About how many usable values a column holds, from the pilot's share of them. */
+  static long expected(long rows, int usable, int pilot) {
+    return pilot == 0 ? rows : (long) Math.ceil((double) rows * usable / pilot);
+  }
+
+  /** Treated measured columns the row sample holds, when the correlation analysis will run. */
+  private static int[] sampledColumns(ProfileLayout layout, int[] measured, Settings settings) {
+    List<Integer> out = new ArrayList<>();
+    for (int j = 0; j < measured.length; j++) {
+      Role r = layout.roles[measured[j]];
+      if (r == Role.TREAT || r == Role.REQUIRED) {
+        out.add(j);
+      }
+    }
+    boolean analysed = settings.collinearity().enabled() && out.size() >= 2
+        && out.size() <= settings.collinearity().maxColumns();
+    return analysed ? out.stream().mapToInt(Integer::intValue).toArray() : new int[0];
   }
 
   /**
-   * One extra aggregate, only when some column needs it: the MAD of every column whose outlier
-   * method is mad, and the rescaled mean and standard deviation of every column of very large
-   * magnitude.
+   * The MAD of every treated column whose outlier method is mad: one more pass, shared, over the
+   * distances of the valid values from the column's exact median. NaN for the other columns.
    */
-  private static List<ColumnProfile> finish(
-      Dataset<Row> data, List<ColumnProfile> columns, Settings settings, QuantileSpec spec) {
-    Aggregates aggs = new Aggregates();
-    int[] madAt = new int[columns.size()];
-    int[] meanAt = new int[columns.size()];
-    Arrays.fill(madAt, -1);
-    Arrays.fill(meanAt, -1);
-    for (int i = 0; i < columns.size(); i++) {
-      ColumnProfile c = columns.get(i);
-      if (!c.measured() || c.usable() == 0) {
+  private static double[] mads(JavaRDD<InternalRow> numeric, ProfileLayout layout, int[] measured,
+      Settings settings, NumericSteps[] validity, List<RankSearch> quartiles, double[][] pilot, long rows) {
+    double[] out = new double[measured.length];
+    java.util.Arrays.fill(out, Double.NaN);
+    List<Integer> cols = new ArrayList<>();
+    List<SearchPass.Target> targets = new ArrayList<>();
+    List<RankSearch> searches = new ArrayList<>();
+    List<OrderWindows> first = new ArrayList<>();
+    int maxHeld = settings.quantiles().maxHeldValues();
+    for (int j = 0; j < measured.length; j++) {
+      String name = layout.names[measured[j]];
+      Role role = layout.roles[measured[j]];
+      boolean treated = role == Role.TREAT || role == Role.REQUIRED;
+      double median = quartiles.get(j).quantiles()[1];
+      if (!treated || settings.column(name).outliers().method() != OutlierMethod.MAD || Double.isNaN(median)) {
         continue;
       }
-      ColumnSettings cs = settings.column(c.name());
-      Column v = ValueExprs.usable(asDouble(c.name()), cs.validMin(), cs.validMax());
-      if (c.treated() && cs.outliers().method() == OutlierMethod.MAD) {
-        Column deviation = aggs.input(abs(v.minus(lit(c.median()))));
-        madAt[i] = aggs.add(spec.of(deviation, new double[] {0.5}));
+      SearchPass.Target t = new SearchPass.Target(j, validity[j], false, median);
+      double[] distances = new double[pilot[j].length];
+      int n = 0;
+      for (double x : pilot[j]) {
+        double d = t.value(x);
+        if (!Double.isNaN(d)) {
+          distances[n++] = d;
+        }
       }
-      double f = c.momentScale();
-      if (f != 1.0) {
-        Column scaled = aggs.input(v.multiply(lit(f)));
-        meanAt[i] = aggs.add(avg(scaled));
-        aggs.add(stddev_samp(scaled));
-      }
+      RankSearch search = new RankSearch(new double[] {0.5}, maxHeld);
+      first.add(search.firstPlan(java.util.Arrays.copyOf(distances, n), expected(rows, n, pilot[j].length)));
+      cols.add(j);
+      targets.add(t);
+      searches.add(search);
     }
-    if (aggs.isEmpty()) {
-      return columns;
-    }
-    Row r = aggs.run(data);
-    List<ColumnProfile> out = new ArrayList<>(columns);
-    for (int i = 0; i < columns.size(); i++) {
-      ColumnProfile c = out.get(i);
-      if (madAt[i] >= 0) {
-        double[] mad = Aggregates.doublesAt(r, madAt[i]);
-        c = c.withMad(mad == null ? Double.NaN : mad[0]);
-      }
-      if (meanAt[i] >= 0) {
-        double f = c.momentScale();
-        c = c.withMoments(
-            PowerScale.unscale(Aggregates.doubleAt(r, meanAt[i]), f),
-            PowerScale.unscale(Aggregates.doubleAt(r, meanAt[i] + 1), f));
-      }
-      out.set(i, c);
+    SearchPass.complete(numeric, targets, searches, first);
+    for (int k = 0; k < cols.size(); k++) {
+      out[cols.get(k)] = searches.get(k).quantiles()[0];
     }
     return out;
   }
 
-  /** The positions of one column's aggregates in the result row (-1: not computed). */
-  private record Slots(
-      StructField field, ColumnKind kind, Role role,
-      int nonNull, int nan, int inf, int invalid, int usable,
-      int min, int max, int mean, int sd, int quantiles,
-      int distinct, int top, int minT, int maxT) {
+  private static ColumnProfile measuredProfile(ProfileLayout layout, int i, ProfileAccumulator acc, int j,
+      double[] q, double mad, long rows) {
+    ScaledMoments m = acc.moments[j];
+    long usable = m.count();
+    return new ColumnProfile(layout.names[i], layout.types[i], ColumnKind.NUMERIC, layout.roles[i], acc.rows,
+        acc.rows - acc.present[i], acc.nan[j], acc.infinite[j], acc.invalid[j], usable,
+        m.min(), m.max(), m.mean(), m.stddev(), q[0], q[1], q[2],
+        ColumnProfile.EXACT_TYPE7, 0.0, mad, -1, null, 0, null, null);
+  }
 
-    static Slots plan(Aggregates a, StructField f, Role role, ColumnSettings cs, QuantileSpec spec) {
-      ColumnKind kind = ColumnKind.of(f.dataType());
-      Column c = a.input(Names.col(f.name()));
-      int nonNull = a.add(count(c));
-      if (role == Role.IDENTIFIER) {
-        return new Slots(f, kind, role, nonNull, -1, -1, -1, -1, -1, -1, -1, -1, -1,
-            a.add(approx_count_distinct(c)), -1, -1, -1);
+  private static ColumnProfile otherProfile(ProfileLayout layout, int i, ProfileAccumulator acc,
+      long rows, String earliest, String latest) {
+    String top = null;
+    long topCount = 0;
+    if (acc.values[i] != null && acc.values[i].top() != null) {
+      top = acc.values[i].top().toString();
+      topCount = acc.values[i].topCount();
+    }
+    long distinct = acc.distinct[i] == null ? -1 : acc.distinct[i].estimate();
+    return new ColumnProfile(layout.names[i], layout.types[i], layout.kinds[i], layout.roles[i], acc.rows,
+        acc.rows - acc.present[i], 0, 0, 0, 0, Double.NaN, Double.NaN, Double.NaN, Double.NaN,
+        Double.NaN, Double.NaN, Double.NaN, null, Double.NaN, Double.NaN, distinct, top, topCount,
+        earliest, latest);
+  }
+
+  /**
+   * The earliest and latest value of every date and timestamp column as text, cast by Spark
+   * itself (session time zone, Spark's own format) from literals: no data is read.
+   */
+  private static String[] temporalTexts(SparkSession spark, ProfileLayout layout, ProfileAccumulator acc) {
+    String[] out = new String[2 * layout.names.length];
+    List<Column> casts = new ArrayList<>();
+    List<Integer> where = new ArrayList<>();
+    for (int i = 0; i < layout.names.length; i++) {
+      ProfileLayout.Read read = layout.reads[i];
+      boolean temporal = read == ProfileLayout.Read.DATE || read == ProfileLayout.Read.TIMESTAMP
+          || read == ProfileLayout.Read.LOCAL_TIMESTAMP;
+      if (!temporal || acc.present[i] == 0) {
+        continue;
       }
-      switch (kind) {
-        case NUMERIC:
-          return numeric(a, f, role, cs, spec, nonNull);
-        case CATEGORICAL:
-          return new Slots(f, kind, role, nonNull, -1, -1, -1, -1, -1, -1, -1, -1, -1,
-              a.add(approx_count_distinct(c)), a.add(call_function("approx_top_k", c, lit(1))),
-              -1, -1);
-        case TEMPORAL:
-          return new Slots(f, kind, role, nonNull, -1, -1, -1, -1, -1, -1, -1, -1, -1, -1, -1,
-              a.add(functions.min(c).cast("string")), a.add(functions.max(c).cast("string")));
-        default:
-          return new Slots(f, kind, role, nonNull, -1, -1, -1, -1, -1, -1, -1, -1, -1, -1, -1,
-              -1, -1);
-      }
+      casts.add(literal(read, acc.earliest[i]).cast("string"));
+      casts.add(literal(read, acc.latest[i]).cast("string"));
+      where.add(i);
     }
-
-    private static Slots numeric(
-        Aggregates a, StructField f, Role role, ColumnSettings cs, QuantileSpec spec, int nonNull) {
-      Column x = a.input(asDouble(f.name()));
-      Column v = a.input(ValueExprs.usable(asDouble(f.name()), cs.validMin(), cs.validMax()));
-      Column finite = ValueExprs.isFinite(x);
-      return new Slots(f, ColumnKind.NUMERIC, role, nonNull,
-          a.add(count_if(ValueExprs.isNan(x))),
-          a.add(count_if(ValueExprs.isInfinite(x))),
-          a.add(count_if(finite.and(ValueExprs.outsideBounds(x, cs.validMin(), cs.validMax())))),
-          a.add(count(v)), a.add(functions.min(v)), a.add(functions.max(v)), a.add(avg(v)), a.add(stddev_samp(v)),
-          a.add(spec.all(v)), -1, -1, -1, -1);
+    if (where.isEmpty()) {
+      return out;
     }
-
-    ColumnProfile read(Row r, long rows, QuantileSpec spec) {
-      long present = Aggregates.longAt(r, nonNull);
-      long nanCount = nan < 0 ? 0 : Aggregates.longAt(r, nan);
-      double[] q = quantiles < 0 ? null : Aggregates.doublesAt(r, quantiles);
-      QuantileGrid grid = q == null ? null : gridOf(q, spec);
-      String topValue = null;
-      long topCount = 0;
-      if (top >= 0 && !r.isNullAt(top) && !r.getList(top).isEmpty()) {
-        Row item = (Row) r.getList(top).get(0);
-        topValue = item.isNullAt(0) ? null : String.valueOf(item.get(0));
-        topCount = item.getLong(1);
-      }
-      return new ColumnProfile(
-          field.name(), field.dataType().simpleString(), kind, role, rows,
-          // count() counts NaN as present: nulls here are true nulls, NaN is counted apart.
-          rows - present, nanCount, at(r, inf), at(r, invalid), at(r, usable),
-          dbl(r, min), dbl(r, max), dbl(r, mean), dbl(r, sd),
-          q == null ? Double.NaN : q[0], q == null ? Double.NaN : q[1],
-          q == null ? Double.NaN : q[2], grid,
-          quantiles < 0 ? null : spec.method(), quantiles < 0 ? Double.NaN : spec.rankError(),
-          Double.NaN, distinct < 0 ? -1 : Aggregates.longAt(r, distinct), topValue, topCount,
-          str(r, minT), str(r, maxT));
+    Row r = spark.range(1).select(casts.toArray(new Column[0])).first();
+    int f = 0;
+    for (int i : where) {
+      out[2 * i] = r.getString(f++);
+      out[2 * i + 1] = r.getString(f++);
     }
+    return out;
+  }
 
-    private static QuantileGrid gridOf(double[] q, QuantileSpec spec) {
-      double[] values = new double[q.length - 3];
-      System.arraycopy(q, 3, values, 0, values.length);
-      // Approximate sketches may return a grid that is not monotone by a hair; it is not, by
-      // construction, for exact type 7, and monotone order is what ranks need.
-      for (int i = 1; i < values.length; i++) {
-        values[i] = Math.max(values[i], values[i - 1]);
-      }
-      return new QuantileGrid(QuantileGrid.evenProbabilities(spec.gridSize()), values);
-    }
-
-    private static long at(Row r, int pos) {
-      return pos < 0 ? 0 : Aggregates.longAt(r, pos);
-    }
-
-    private static double dbl(Row r, int pos) {
-      return pos < 0 ? Double.NaN : Aggregates.doubleAt(r, pos);
-    }
-
-    private static String str(Row r, int pos) {
-      return pos < 0 || r.isNullAt(pos) ? null : r.getString(pos);
+  /** Spark's internal value of a date (days) or timestamp (microseconds) as a typed literal. */
+  private static Column literal(ProfileLayout.Read read, long v) {
+    switch (read) {
+      case DATE:
+        return functions.lit(LocalDate.ofEpochDay(v));
+      case TIMESTAMP:
+        return functions.lit(Instant.EPOCH.plus(v, ChronoUnit.MICROS));
+      default:
+        return functions.lit(LocalDateTime.ofEpochSecond(Math.floorDiv(v, 1_000_000L),
+            (int) Math.floorMod(v, 1_000_000L) * 1000, ZoneOffset.UTC));
     }
   }
 }

@@ -1,11 +1,34 @@
 package dev.sluice.profile;
 
+import dev.sluice.stats.RowSample;
 import java.util.List;
+import java.util.Map;
 import java.util.Optional;
 
-/** The pass-1 profile of a table: its row count and one profile per column, in table order. */
-public record TableProfile(long rows, List<ColumnProfile> columns, boolean exactQuantiles) {
+/**
+ * The pass-1 profile of a table: its row count and one profile per column, in table order.
+ *
+ * @param sampleColumns the treated numeric columns the row sample holds, in its order (empty when
+ *     the correlation analysis will not run)
+ * @param sample a canonical sample of those columns' raw values (NaN for null), for rank
+ *     correlations; null when sampleColumns is empty
+ * @param pilot per measured column, its raw values in the pilot sample (NaN for null; empty when
+ *     the table was small enough to need none): where later searches place their first windows
+ */
+public record TableProfile(
+    long rows,
+    List<ColumnProfile> columns,
+    List<String> sampleColumns,
+    RowSample sample,
+    Map<String, double[]> pilot) {
+
   public Optional<ColumnProfile> column(String name) {
     return columns.stream().filter(c -> c.name().equals(name)).findFirst();
+  }
+
+  /** The pilot's raw values of a measured column (empty when there was no pilot). */
+  public double[] pilotOf(String name) {
+    double[] p = pilot.get(name);
+    return p == null ? new double[0] : p;
   }
 }

@@ -23,50 +23,51 @@ import java.util.Arrays;
  * present; c'_j the centred imputation value).
  *
  * <p>The sums are plain sums of centred values, as in the Gram-matrix route of Spark's own
- * correlation, because they cost no division per cell and vectorize: a row without a missing
- * entry adds p(p + 1) / 2 products to one dense triangle; a row with a missing entry adds, for
- * each present column j, four contiguous rows of p cells (count, sum, square and product with every
- * other column's presence). Rows are added a block at a time so that the cells stay in the
- * cache. Centring on the median keeps the cancellation in sum u^2 - (sum u)^2 / n
- * small: |mean - median| is at most one standard deviation for any distribution, so the relative
- * error of a variance stays within a small multiple of n times the unit roundoff, and usually near
- * its square root. A centre many standard deviations away from the data loses accuracy as the
- * square of that distance. Memory is about 5 p^2 numbers.
+ * correlation, because they cost no division per cell. A missing entry counts as u = 0 with
+ * presence m = 0, so one dense triangle of products sum u_j u_k over every row already holds the
+ * sums of products where both are present. The sums over "both present" rows of u_j, u_j^2 and
+ * m_j follow as the column totals minus the same sums over the rows where k is missing, which a
+ * row adds only for its missing entries (3 p cells each). A row thus costs p(p + 1) / 2 products,
+ * added a block of rows at a time with several partial sums so that the loops run at the
+ * processor's throughput, plus 3 p per missing entry. Centring on the median keeps the
+ * cancellation in sum u^2 - (sum u)^2 / n small: |mean - median| is at most one standard
+ * deviation for any distribution, so the relative error of a variance stays within a small
+ * multiple of n times the unit roundoff, and usually near its square root. A centre many standard
+ * deviations away from the data loses accuracy as the square of that distance. Memory is about
+ * 4 p^2 numbers.
  *
  * <p>Edge cases: NaN marks a missing entry; infinite entries and centres are rejected; no rows or
  * one row give NaN covariances. Merging requires the same centres and scales and adds the sums.
  */
 public final class CoMoments implements Serializable {
-  private static final long serialVersionUID = 2L;
+  private static final long serialVersionUID = 3L;
 
   private final int p;
   private final double[] centres;
   /** Power-of-two factors applied to each column's deviations (see {@link PowerScale}). */
   private final double[] scales;
   private long rows;
-  /** Rows with no missing entry: their count, column sums, and products (upper triangle). */
-  private long completeRows;
-  private final double[] completeSum;
-  private final double[] completeProduct;
+  /** Over every row: sums of u and u^2 (u = 0 where missing) and the count of present values. */
+  private final double[] sumU;
+  private final double[] sumU2;
+  private final double[] present;
+  /** Over every row: sum u_j u_k, upper triangle (j <= k) of a p x p array. */
+  private final double[] gram;
   /**
-   * Rows with a missing entry; cell (j, k) covers those of them where j and k are both present
-   * (for k == j: where j is present): the count, the sum and the sum of squares of x_j, and the
-   * sum of x_j x_k.
+   * Cell (k, j) = [k * p + j], over the rows where column k is missing: the sums of u_j and u_j^2
+   * and the count of present j.
    */
-  private final double[] count;
-  private final double[] sum;
-  private final double[] square;
-  private final double[] product;
+  private final double[] missU;
+  private final double[] missU2;
+  private final double[] missPresent;
   /**
-   * Rows waiting to be added, a block at a time: each cell row of the sums then stays in the
-   * cache while the whole block is added to it, instead of streaming all 4 p^2 cells per row.
+   * Rows waiting for the product triangle, column-major (block[j][r]), added a block at a time.
    * Flushed before the sums are read, merged or serialized.
    */
-  private transient double[][] pendingU;
-  private transient double[][] pendingM;
-  private transient boolean[] pendingIncomplete;
+  private transient double[][] block;
+  private transient double[] u;
   private transient int pending;
-  private static final int BLOCK = 32;
+  private static final int BLOCK = 64;
 
   /** @throws IllegalArgumentException for no centres or a non-finite centre */
   public CoMoments(double[] centres) {
@@ -102,12 +103,18 @@ public final class CoMoments implements Serializable {
     this.p = centres.length;
     this.centres = centres.clone();
     this.scales = scales.clone();
-    this.completeSum = new double[p];
-    this.completeProduct = new double[p * p];
-    this.count = new double[p * p];
-    this.sum = new double[p * p];
-    this.square = new double[p * p];
-    this.product = new double[p * p];
+    this.sumU = new double[p];
+    this.sumU2 = new double[p];
+    this.present = new double[p];
+    this.gram = new double[p * p];
+    this.missU = new double[p * p];
+    this.missU2 = new double[p * p];
+    this.missPresent = new double[p * p];
+  }
+
+  /** An empty accumulator with the same centres and scales (each task of a pass starts from one). */
+  public CoMoments emptyCopy() {
+    return new CoMoments(centres, scales);
   }
 
   public int dimension() {
@@ -124,73 +131,72 @@ public final class CoMoments implements Serializable {
       throw new IllegalArgumentException(
           "Cannot add a row of " + values.length + " values to " + p + " columns");
     }
-    if (pendingU == null) {
-      pendingU = new double[BLOCK][p];
-      pendingM = new double[BLOCK][p];
-      pendingIncomplete = new boolean[BLOCK];
+    if (block == null) {
+      block = new double[p][BLOCK];
+      u = new double[p];
     }
-    double[] u = pendingU[pending];
-    double[] m = pendingM[pending];
-    boolean anyMissing = false;
+    int missing = 0;
     for (int j = 0; j < p; j++) {
       double x = values[j];
       if (Double.isInfinite(x)) {
         throw new IllegalArgumentException("Cannot add the infinite value " + x + " in column " + j);
       }
+      double d = Double.isNaN(x) ? 0.0 : x * scales[j] - centres[j] * scales[j];
+      u[j] = d;
+      block[j][pending] = d;
       if (Double.isNaN(x)) {
-        u[j] = 0.0;
-        m[j] = 0.0;
-        anyMissing = true;
+        missing++;
       } else {
-        u[j] = x * scales[j] - centres[j] * scales[j];
-        m[j] = 1.0;
+        sumU[j] += d;
+        sumU2[j] += d * d;
+        present[j] += 1.0;
+      }
+    }
+    if (missing > 0) {
+      for (int k = 0; k < p; k++) {
+        if (Double.isNaN(values[k])) {
+          int base = k * p;
+          for (int j = 0; j < p; j++) {
+            double d = u[j];
+            missU[base + j] += d;
+            missU2[base + j] += d * d;
+            missPresent[base + j] += Double.isNaN(values[j]) ? 0.0 : 1.0;
+          }
+        }
       }
     }
     rows++;
-    pendingIncomplete[pending] = anyMissing;
     pending++;
     if (pending == BLOCK) {
       flush();
     }
   }
 
-  /**
-   * Adds the pending rows, cell row by cell row. Missing entries have u = 0 and m = 0, so the
-   * inner loops need no branch.
-   */
+  /** Adds the pending rows' products to the triangle, four partial sums per cell. */
   private void flush() {
     if (pending == 0) {
       return;
     }
+    int n = pending;
     for (int j = 0; j < p; j++) {
-      int base = j * p;
-      for (int r = 0; r < pending; r++) {
-        double[] u = pendingU[r];
-        double uj = u[j];
-        if (!pendingIncomplete[r]) {
-          completeSum[j] += uj;
-          for (int k = j; k < p; k++) {
-            completeProduct[base + k] += uj * u[k];
-          }
-          continue;
+      double[] a = block[j];
+      for (int k = j; k < p; k++) {
+        double[] b = block[k];
+        double s0 = 0;
+        double s1 = 0;
+        double s2 = 0;
+        double s3 = 0;
+        int r = 0;
+        for (; r + 3 < n; r += 4) {
+          s0 += a[r] * b[r];
+          s1 += a[r + 1] * b[r + 1];
+          s2 += a[r + 2] * b[r + 2];
+          s3 += a[r + 3] * b[r + 3];
         }
-        double[] m = pendingM[r];
-        if (m[j] == 0.0) {
-          continue;
+        for (; r < n; r++) {
+          s0 += a[r] * b[r];
         }
-        double uj2 = uj * uj;
-        for (int k = 0; k < p; k++) {
-          double mk = m[k];
-          count[base + k] += mk;
-          sum[base + k] += uj * mk;
-          square[base + k] += uj2 * mk;
-          product[base + k] += uj * u[k];
-        }
-      }
-    }
-    for (int r = 0; r < pending; r++) {
-      if (!pendingIncomplete[r]) {
-        completeRows++;
+        gram[j * p + k] += (s0 + s1) + (s2 + s3);
       }
     }
     pending = 0;
@@ -213,13 +219,13 @@ public final class CoMoments implements Serializable {
     flush();
     other.flush();
     rows += other.rows;
-    completeRows += other.completeRows;
-    addInto(completeSum, other.completeSum);
-    addInto(completeProduct, other.completeProduct);
-    addInto(count, other.count);
-    addInto(sum, other.sum);
-    addInto(square, other.square);
-    addInto(product, other.product);
+    addInto(sumU, other.sumU);
+    addInto(sumU2, other.sumU2);
+    addInto(present, other.present);
+    addInto(gram, other.gram);
+    addInto(missU, other.missU);
+    addInto(missU2, other.missU2);
+    addInto(missPresent, other.missPresent);
     return this;
   }
 
@@ -270,22 +276,20 @@ public final class CoMoments implements Serializable {
 
   /** Sums over the rows that count for the pair (j, k) under this imputation. */
   private Sums pair(int j, int k, double[] imputed) {
-    int jk = j * p + k;
     int kj = k * p + j;
-    int jj = j * p + j;
-    int kk = k * p + k;
+    int jk = j * p + k;
     double cj = imputed[j] * scales[j] - centres[j] * scales[j];
     double ck = imputed[k] * scales[k] - centres[k] * scales[k];
     boolean fillJ = !Double.isNaN(cj);
     boolean fillK = !Double.isNaN(ck);
     Sums s = new Sums();
-    // Both present.
-    double nBoth = completeRows + count[jk];
-    double sjBoth = completeSum[j] + sum[jk];
-    double skBoth = completeSum[k] + sum[kj];
-    double sjjBoth = completeProduct[jj] + square[jk];
-    double skkBoth = completeProduct[kk] + square[kj];
-    double sjkBoth = completeProduct[Math.min(jk, kj)] + product[jk];
+    // Both present: column totals less their sums over the rows where the other is missing.
+    double nBoth = present[j] - missPresent[kj];
+    double sjBoth = sumU[j] - missU[kj];
+    double skBoth = sumU[k] - missU[jk];
+    double sjjBoth = sumU2[j] - missU2[kj];
+    double skkBoth = sumU2[k] - missU2[jk];
+    double sjkBoth = gram[Math.min(j, k) * p + Math.max(j, k)];
     s.add(nBoth, sjBoth, skBoth, sjjBoth, skkBoth, sjkBoth);
     if (j == k) {
       if (fillJ) {
@@ -294,19 +298,19 @@ public final class CoMoments implements Serializable {
       }
       return s;
     }
-    double nJ = completeRows + count[jj];
-    double nK = completeRows + count[kk];
+    double nJ = present[j];
+    double nK = present[k];
     if (fillK) {
       // j present, k missing and filled with ck.
       double n = nJ - nBoth;
-      double sj = completeSum[j] + sum[jj] - sjBoth;
-      double sjj = completeProduct[jj] + square[jj] - sjjBoth;
+      double sj = sumU[j] - sjBoth;
+      double sjj = sumU2[j] - sjjBoth;
       s.add(n, sj, n * ck, sjj, n * ck * ck, ck * sj);
     }
     if (fillJ) {
       double n = nK - nBoth;
-      double sk = completeSum[k] + sum[kk] - skBoth;
-      double skk = completeProduct[kk] + square[kk] - skkBoth;
+      double sk = sumU[k] - skBoth;
+      double skk = sumU2[k] - skkBoth;
       s.add(n, n * cj, sk, n * cj * cj, skk, cj * sk);
     }
     if (fillJ && fillK) {

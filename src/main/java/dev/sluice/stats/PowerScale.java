@@ -26,9 +26,4 @@ public final class PowerScale {
     }
     return Math.scalb(1.0, -Math.getExponent(maxAbs));
   }
-
-  /** {@code scaled / factor}, exact apart from overflow to infinity, which means not representable. */
-  public static double unscale(double scaled, double factor) {
-    return scaled / factor;
-  }
 }

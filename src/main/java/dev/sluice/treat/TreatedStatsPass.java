@@ -1,199 +1,163 @@
 package dev.sluice.treat;
 
-import static org.apache.spark.sql.functions.avg;
-import static org.apache.spark.sql.functions.call_function;
-import static org.apache.spark.sql.functions.count;
-import static org.apache.spark.sql.functions.count_if;
-import static org.apache.spark.sql.functions.lit;
-import static org.apache.spark.sql.functions.max;
-import static org.apache.spark.sql.functions.min;
-import static org.apache.spark.sql.functions.stddev_samp;
-
 import dev.sluice.config.ColumnSettings;
 import dev.sluice.config.ImputeStrategy;
 import dev.sluice.config.ScalingMethod;
 import dev.sluice.config.Settings;
 import dev.sluice.plan.OutlierPlan;
 import dev.sluice.plan.TreatedStats;
-import dev.sluice.profile.Aggregates;
 import dev.sluice.profile.ColumnProfile;
-import dev.sluice.profile.QuantileSpec;
+import dev.sluice.profile.ValueExprs;
+import dev.sluice.profile.RowScan;
+import dev.sluice.profile.SearchPass;
 import dev.sluice.profile.TableProfile;
 import dev.sluice.stats.CoMoments;
-import dev.sluice.stats.PowerScale;
-import dev.sluice.stats.Published;
-import dev.sluice.stats.QuantileGrid;
+import dev.sluice.stats.NumericSteps;
+import dev.sluice.stats.OrderWindows;
+import dev.sluice.stats.RankSearch;
 import java.util.ArrayList;
+import java.util.Arrays;
 import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Map;
+import org.apache.spark.api.java.JavaRDD;
 import org.apache.spark.sql.Column;
 import org.apache.spark.sql.Dataset;
-import org.apache.spark.sql.Encoders;
 import org.apache.spark.sql.Row;
-import org.apache.spark.sql.functions;
-import org.apache.spark.sql.types.DataTypes;
-import org.apache.spark.sql.types.StructField;
-import org.apache.spark.sql.types.StructType;
+import org.apache.spark.sql.catalyst.InternalRow;
 
 /**
- * Pass 2: one aggregate over the values after the validity and outlier steps gives, for every
- * treated column, the statistics imputation and scaling are fitted on, the counts beyond each
- * fence, and the co-moments for correlation after imputation.
+ * Pass 2: one loop over the treated numeric columns, after the validity and outlier steps, gives
+ * the statistics imputation and scaling are fitted on (moments, exact quartiles, mode), the counts
+ * beyond each fence, and the co-moments for the Pearson correlation after imputation.
  */
 public final class TreatedStatsPass {
+  static final double[] QUARTILES = {0.25, 0.5, 0.75};
+
   private TreatedStatsPass() {}
 
   public static TreatedStats run(
       Dataset<Row> data, TableProfile profile, Map<String, OutlierPlan> outliers, Settings settings) {
-    QuantileSpec spec = new QuantileSpec(
-        profile.exactQuantiles(), settings.quantiles().relativeError(),
-        settings.quantiles().rankGridSize(), settings.quantiles().sketch());
-    Aggregates aggs = new Aggregates();
-    Map<String, int[]> slots = new LinkedHashMap<>();
-    Map<String, Double> scales = new LinkedHashMap<>();
-    List<ColumnProfile> corr = new ArrayList<>();
-    List<Column> corrValues = new ArrayList<>();
+    List<ColumnProfile> cols = new ArrayList<>();
     for (ColumnProfile c : profile.columns()) {
-      if (!c.treated()) {
-        continue;
+      if (c.treated()) {
+        cols.add(c);
       }
+    }
+    if (cols.isEmpty()) {
+      return new TreatedStats(Map.of(), List.of(), null);
+    }
+    int p = cols.size();
+    int maxHeld = settings.quantiles().maxHeldValues();
+    List<Column> projection = new ArrayList<>();
+    NumericSteps[] steps = new NumericSteps[p];
+    double[][] limits = new double[p][];
+    boolean[] mode = new boolean[p];
+    OrderWindows[] first = new OrderWindows[p];
+    List<RankSearch> searches = new ArrayList<>();
+    List<SearchPass.Target> targets = new ArrayList<>();
+    List<String> corrNames = new ArrayList<>();
+    List<Integer> corrAt = new ArrayList<>();
+    for (int k = 0; k < p; k++) {
+      ColumnProfile c = cols.get(k);
       ColumnSettings cs = settings.column(c.name());
       OutlierPlan o = outliers.get(c.name());
+      projection.add(ValueExprs.asDouble(c.name()));
       Double lo = cs.validMin().isPresent() ? cs.validMin().getAsDouble() : null;
       Double hi = cs.validMax().isPresent() ? cs.validMax().getAsDouble() : null;
-      Column t = aggs.input(Treatments.afterOutliers(c.name(), lo, hi, o));
-      Column v = aggs.input(Treatments.valid(c.name(), lo, hi));
-      slots.put(c.name(), columnAggregates(aggs, v, t, o, cs, spec, c.momentScale()));
-      scales.put(c.name(), c.momentScale());
-      if (c.usable() > 0 && c.grid() != null) {
-        corr.add(c);
-        corrValues.add(t);
+      steps[k] = o.steps(lo, hi);
+      limits[k] = new double[] {
+        low(o.innerLower()), high(o.innerUpper()), low(o.outerLower()), high(o.outerUpper()),
+        low(o.lower()), high(o.upper())};
+      mode[k] = cs.missing().strategy() == ImputeStrategy.MODE;
+      RankSearch search = new RankSearch(QUARTILES, maxHeld);
+      searches.add(search);
+      targets.add(new SearchPass.Target(k, steps[k], true, Double.NaN));
+      if (needsQuartiles(cs)) {
+        double[] pilot = treatedPilot(profile.pilotOf(c.name()), steps[k]);
+        long expected = profile.pilotOf(c.name()).length == 0 ? profile.rows()
+            : (long) Math.ceil((double) profile.rows() * pilot.length / profile.pilotOf(c.name()).length);
+        first[k] = search.firstPlan(pilot, expected);
+      }
+      if (c.usable() > 0) {
+        corrNames.add(c.name());
+        corrAt.add(k);
       }
     }
-    int comomentsAt = -1;
     boolean correlate = settings.collinearity().enabled()
-        && corr.size() >= 2 && corr.size() <= settings.collinearity().maxColumns();
+        && corrNames.size() >= 2 && corrNames.size() <= settings.collinearity().maxColumns();
+    CoMoments comoments = correlate ? comoments(profile, corrNames) : null;
+    int[] corrIndex = new int[p];
+    Arrays.fill(corrIndex, -1);
     if (correlate) {
-      comomentsAt = aggs.add(comoments(corr, outliers, corrValues));
-    }
-    if (aggs.isEmpty()) {
-      return new TreatedStats(Map.of(), List.of(), null, null);
-    }
-    Row r = aggs.run(data);
-    Map<String, TreatedStats.ColumnStats> stats = new LinkedHashMap<>();
-    for (ColumnProfile c : profile.columns()) {
-      int[] at = slots.get(c.name());
-      if (at == null) {
-        continue;
+      for (int i = 0; i < corrAt.size(); i++) {
+        corrIndex[corrAt.get(i)] = i;
       }
-      double[] derived = !spec.exact() && needsQuartiles(settings.column(c.name()))
-          ? derivedQuartiles(c, outliers.get(c.name())) : null;
-      stats.put(c.name(), read(r, at, scales.get(c.name()), derived));
     }
-    List<String> names = new ArrayList<>();
-    corr.forEach(c -> names.add(c.name()));
-    if (comomentsAt < 0) {
-      return new TreatedStats(stats, List.of(), null, null);
+    JavaRDD<InternalRow> rows = RowScan.rows(data, projection);
+    TreatedAccumulator proto = new TreatedAccumulator(steps, limits, first, mode, corrIndex, comoments);
+    TreatedAccumulator acc = RowScan.fold(rows, proto::emptyCopy);
+    for (int k = 0; k < p; k++) {
+      if (first[k] != null) {
+        searches.get(k).absorb(acc.windows[k]);
+      }
     }
-    CoMoments[] acc = CoMomentAggregator.decode((byte[]) r.get(comomentsAt));
-    return new TreatedStats(stats, names, acc[0], acc[1]);
+    List<SearchPass.Target> open = new ArrayList<>();
+    List<RankSearch> openSearches = new ArrayList<>();
+    for (int k = 0; k < p; k++) {
+      if (first[k] != null) {
+        open.add(targets.get(k));
+        openSearches.add(searches.get(k));
+      }
+    }
+    SearchPass.complete(rows, open, openSearches, List.of());
+    Map<String, TreatedStats.ColumnStats> stats = new LinkedHashMap<>();
+    for (int k = 0; k < p; k++) {
+      double[] q = first[k] == null || acc.moments[k].count() == 0
+          ? new double[] {Double.NaN, Double.NaN, Double.NaN} : searches.get(k).quantiles();
+      stats.put(cols.get(k).name(), acc.stats(k, q));
+    }
+    return new TreatedStats(stats, correlate ? List.copyOf(corrNames) : List.of(),
+        correlate ? acc.comoments : null);
   }
 
-  /** {@code scale}: the column's power-of-two factor for its mean and standard deviation. */
-  private static int[] columnAggregates(
-      Aggregates a, Column v, Column t, OutlierPlan o, ColumnSettings cs, QuantileSpec spec,
-      double scale) {
-    // On large tables the quartiles after the outlier step follow from the pass-1 grid (see
-    // derivedQuartiles): a second quantile sketch here would cost as much as pass 1's.
-    boolean needQuartiles = spec.exact() && needsQuartiles(cs);
-    boolean needMode = cs.missing().strategy() == ImputeStrategy.MODE;
-    Column scaled = scale == 1.0 ? t : a.input(t.multiply(lit(scale)));
-    return new int[] {
-      a.add(count(t)), a.add(avg(scaled)), a.add(stddev_samp(scaled)), a.add(min(t)), a.add(max(t)),
-      needQuartiles ? a.add(spec.quartiles(t)) : -1,
-      needMode ? a.add(call_function("approx_top_k", t, lit(1))) : -1,
-      a.add(beyondCount(v, o.innerLower(), true)), a.add(beyondCount(v, o.innerUpper(), false)),
-      a.add(beyondCount(v, o.outerLower(), true)), a.add(beyondCount(v, o.outerUpper(), false)),
-      a.add(beyondCount(v, o.lower(), true)), a.add(beyondCount(v, o.upper(), false)),
-    };
+  private static double low(Double limit) {
+    return limit == null ? Double.NEGATIVE_INFINITY : limit;
+  }
+
+  private static double high(Double limit) {
+    return limit == null ? Double.POSITIVE_INFINITY : limit;
   }
 
   private static boolean needsQuartiles(ColumnSettings cs) {
     return cs.missing().strategy() == ImputeStrategy.MEDIAN || cs.scaling() == ScalingMethod.ROBUST;
   }
 
+  /** The pilot's values after steps 2 and 3: where the quartile windows of this pass go. */
+  private static double[] treatedPilot(double[] raw, NumericSteps steps) {
+    double[] out = new double[raw.length];
+    int n = 0;
+    for (double x : raw) {
+      double t = steps.treated(x);
+      if (!Double.isNaN(t)) {
+        out[n++] = t;
+      }
+    }
+    return Arrays.copyOf(out, n);
+  }
+
   /**
-   * Quartiles of the values after the outlier step, from the column's pass-1 quantile grid:
-   * capping clamps them, removal takes them within the remaining stretch of ranks (see {@link
-   * QuantileGrid#quantileWithin}). Null when the column has no grid.
+   * Co-moments centred on each column's exact pass-1 median: a centre no outlier can drag, so the
+   * sums of products stay small (see {@link CoMoments}).
    */
-  static double[] derivedQuartiles(ColumnProfile c, OutlierPlan o) {
-    if (c.grid() == null) {
-      return null;
-    }
-    boolean cap = o.action().equals("cap");
-    boolean removes = o.action().equals("set-missing") || o.action().equals("quarantine");
-    double lo = (cap || removes) && o.lower() != null ? o.lower() : Double.NEGATIVE_INFINITY;
-    double hi = (cap || removes) && o.upper() != null ? o.upper() : Double.POSITIVE_INFINITY;
-    double[] out = new double[3];
-    double[] ps = {0.25, 0.5, 0.75};
-    for (int i = 0; i < 3; i++) {
-      out[i] = Published.round(c.grid().quantileWithin(ps[i], lo, hi, cap));
-    }
-    return out;
-  }
-
-  private static Column beyondCount(Column v, Double limit, boolean below) {
-    if (limit == null) {
-      return lit(0L);
-    }
-    return count_if(below ? v.lt(lit(limit)) : v.gt(lit(limit)));
-  }
-
-  private static TreatedStats.ColumnStats read(Row r, int[] at, double scale, double[] derived) {
-    // Derived quartiles only where values are left: the grid knows nothing of an empty remainder.
-    double[] q = at[5] >= 0 ? Aggregates.doublesAt(r, at[5])
-        : Aggregates.longAt(r, at[0]) > 0 ? derived : null;
-    double mode = Double.NaN;
-    if (at[6] >= 0 && !r.isNullAt(at[6]) && !r.getList(at[6]).isEmpty()) {
-      Row item = (Row) r.getList(at[6]).get(0);
-      mode = item.isNullAt(0) ? Double.NaN : item.getDouble(0);
-    }
-    return new TreatedStats.ColumnStats(
-        Aggregates.longAt(r, at[0]),
-        PowerScale.unscale(Aggregates.doubleAt(r, at[1]), scale),
-        PowerScale.unscale(Aggregates.doubleAt(r, at[2]), scale),
-        Aggregates.doubleAt(r, at[3]), Aggregates.doubleAt(r, at[4]),
-        q == null ? Double.NaN : q[0], q == null ? Double.NaN : q[1], q == null ? Double.NaN : q[2],
-        mode, Aggregates.longAt(r, at[7]), Aggregates.longAt(r, at[8]), Aggregates.longAt(r, at[9]),
-        Aggregates.longAt(r, at[10]), Aggregates.longAt(r, at[11]), Aggregates.longAt(r, at[12]));
-  }
-
-  private static Column comoments(
-      List<ColumnProfile> cols, Map<String, OutlierPlan> outliers, List<Column> values) {
-    int p = cols.size();
-    double[] centres = new double[p];
-    double[] scales = new double[p];
-    QuantileGrid[] grids = new QuantileGrid[p];
-    double[] capLo = new double[p];
-    double[] capHi = new double[p];
-    List<StructField> fields = new ArrayList<>();
-    for (int i = 0; i < p; i++) {
-      ColumnProfile c = cols.get(i);
-      OutlierPlan o = outliers.get(c.name());
-      // The median is a first-pass centre that no outlier can drag: sums of products stay small.
+  private static CoMoments comoments(TableProfile profile, List<String> names) {
+    double[] centres = new double[names.size()];
+    double[] scales = new double[names.size()];
+    for (int i = 0; i < names.size(); i++) {
+      ColumnProfile c = profile.column(names.get(i)).orElseThrow();
       centres[i] = c.median();
       scales[i] = c.momentScale();
-      grids[i] = c.grid();
-      boolean cap = o.action().equals("cap");
-      capLo[i] = cap && o.lower() != null ? o.lower() : Double.NEGATIVE_INFINITY;
-      capHi[i] = cap && o.upper() != null ? o.upper() : Double.POSITIVE_INFINITY;
-      fields.add(DataTypes.createStructField("v" + i, DataTypes.DoubleType, true));
     }
-    StructType schema = DataTypes.createStructType(fields);
-    var udaf = functions.udaf(
-        new CoMomentAggregator(centres, scales, grids, capLo, capHi), Encoders.row(schema));
-    return udaf.apply(values.toArray(new Column[0]));
+    return new CoMoments(centres, scales);
   }
 }

@@ -10,20 +10,25 @@ import java.nio.file.Path;
 import org.apache.spark.sql.Dataset;
 import org.apache.spark.sql.Row;
 import org.apache.spark.sql.SparkSession;
-import org.junit.jupiter.api.Test;
+import org.junit.jupiter.params.ParameterizedTest;
+import org.junit.jupiter.params.provider.ValueSource;
 import org.junit.jupiter.api.extension.ExtendWith;
 import org.junit.jupiter.api.io.TempDir;
 
 /**
  * The same input and settings give the same plan, summary and treated rows, whatever the input's
- * partitioning (the sample is small enough for exact quantiles).
+ * partitioning: with whole columns held in memory, and on the large-table path, where a pilot
+ * from the first rows of a few partitions (different rows for each partitioning) aims the exact
+ * quantile search and Spearman's rho comes from a row sample smaller than the table.
  */
 @ExtendWith(SharedSpark.class)
 class DeterminismTest {
   @TempDir Path tmp;
 
-  @Test
-  void planSummaryAndTreatedRowsDoNotDependOnPartitioning(SparkSession spark) throws Exception {
+  @ParameterizedTest
+  @ValueSource(booleans = {false, true})
+  void planSummaryAndTreatedRowsDoNotDependOnPartitioning(boolean largeTablePath, SparkSession spark)
+      throws Exception {
     Dataset<Row> sample = spark.read().parquet("sample-parquet");
     Path one = tmp.resolve("one");
     Path seven = tmp.resolve("seven");
@@ -31,7 +36,10 @@ class DeterminismTest {
     sample.repartition(7).write().partitionBy("depot").parquet(seven.toString());
     Path outOne = tmp.resolve("out-one");
     Path outSeven = tmp.resolve("out-seven");
-    String[] conf = {"--config", "conf/sample.conf"};
+    String[] conf = largeTablePath
+        ? new String[] {"--config", "conf/sample.conf", "--set", "quantiles.max-held-values=1000",
+            "--set", "quantiles.pilot-rows=1000", "--set", "collinearity.spearman-rows=1000"}
+        : new String[] {"--config", "conf/sample.conf"};
     assertThat(run(concat(new String[] {"run", "--input", one.toString(), "--output", outOne.toString()}, conf)).code()).isZero();
     assertThat(run(concat(new String[] {"run", "--input", seven.toString(), "--output", outSeven.toString()}, conf)).code()).isZero();
     assertThat(json(outSeven.resolve("plan.json"))).isEqualTo(json(outOne.resolve("plan.json")));

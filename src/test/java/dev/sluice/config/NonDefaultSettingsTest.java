@@ -23,7 +23,7 @@ class NonDefaultSettingsTest {
         SettingsLoader.effectiveConfig(
             Optional.empty(),
             List.of(
-                "quantiles.relative-error=0.010",
+                "quantiles.pilot-rows=50000",
                 "defaults.outliers.iqr-k=1.5",
                 "spark.conf.\"spark.sql.shuffle.partitions\"=4",
                 "columns.\"gross.weight\".outliers.action=flag",
@@ -34,7 +34,7 @@ class NonDefaultSettingsTest {
             entry("sluice.columns.\"gross.weight\".outliers.action", "flag"),
             entry("sluice.defaults.valid-min", "0"),
             entry("sluice.input.format", "csv"),
-            entry("sluice.quantiles.relative-error", "0.010"),
+            entry("sluice.quantiles.pilot-rows", "50000"),
             entry("sluice.spark.conf.\"spark.sql.shuffle.partitions\"", "4"));
   }
 

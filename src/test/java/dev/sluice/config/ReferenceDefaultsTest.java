@@ -23,8 +23,8 @@ class ReferenceDefaultsTest {
     assertThat(s.sparkMaster()).isEqualTo("local[*]");
     assertThat(s.sparkConf()).isEmpty();
     assertThat(s.input()).isEqualTo(new InputSettings(Optional.empty(), ",", Optional.empty()));
-    assertThat(s.quantiles()).isEqualTo(new QuantileSettings(100_000, 0.001, 1000));
-    assertThat(s.collinearity()).isEqualTo(new CollinearitySettings(true, 0.9, 10, false, 500));
+    assertThat(s.quantiles()).isEqualTo(new QuantileSettings(200_000, 1_000_000));
+    assertThat(s.collinearity()).isEqualTo(new CollinearitySettings(true, 0.9, 10, false, 500, 100_000));
     assertThat(s.defaults()).isEqualTo(documentedDefaults(""));
     assertThat(s.columns()).isEmpty();
   }
@@ -48,6 +48,7 @@ class ReferenceDefaultsTest {
             "sluice.collinearity.enabled",
             "sluice.collinearity.max-columns",
             "sluice.collinearity.pair-threshold",
+            "sluice.collinearity.spearman-rows",
             "sluice.collinearity.vif-limit",
             "sluice.columns",
             "sluice.defaults.invalid-action",
@@ -70,10 +71,8 @@ class ReferenceDefaultsTest {
             "sluice.input.csv.header",
             "sluice.input.csv.schema",
             "sluice.input.format",
-            "sluice.quantiles.exact-max-count",
-            "sluice.quantiles.rank-grid-size",
-            "sluice.quantiles.relative-error",
-            "sluice.quantiles.sketch",
+            "sluice.quantiles.max-held-values",
+            "sluice.quantiles.pilot-rows",
             "sluice.spark.conf",
             "sluice.spark.master");
   }

@@ -144,11 +144,9 @@ class ValidationTest {
         "defaults.outliers.iqr-k | 0 | expected a number above 0",
         "defaults.outliers.z-limit | -1 | expected a number above 0",
         "defaults.outliers.mad-limit | 0 | expected a number above 0",
-        "quantiles.relative-error | 0 | expected a number above 0 and below 0.5",
-        "quantiles.relative-error | 0.5 | expected a number above 0 and below 0.5",
-        "quantiles.exact-max-count | -1 | expected a whole number of at least 0",
-        "quantiles.rank-grid-size | 1 | expected a whole number from 2 to 100000",
-        "quantiles.rank-grid-size | 100001 | expected a whole number from 2 to 100000",
+        "quantiles.pilot-rows | 999 | expected a whole number from 1000 to 100000000",
+        "quantiles.max-held-values | 100000001 | expected a whole number from 1000 to 100000000",
+        "collinearity.spearman-rows | 10 | expected a whole number from 1000 to 10000000",
         "collinearity.pair-threshold | 0 | expected a number above 0 and at most 1",
         "collinearity.pair-threshold | 1.01 | expected a number above 0 and at most 1",
         "collinearity.vif-limit | 0.99 | expected a number of at least 1",
@@ -161,15 +159,19 @@ class ValidationTest {
         .isEqualTo("Cannot set sluice." + key + " to " + value + ": " + reason);
   }
 
-  @Test
-  void kllSketchRefusesARankErrorItsLargestKCannotReach() {
-    rejection("sluice.quantiles { sketch = kll, relative-error = 0.00001 }")
-        .startsWith("Cannot set sluice.quantiles.relative-error to 0.00001: expected at least 0.0000")
-        .endsWith("with sketch = kll (the rank error of its largest k, 65535)");
-    assertThat(parse("sluice.quantiles { sketch = kll, relative-error = 0.001 }").quantiles().sketch())
-        .isEqualTo(QuantileSketch.KLL);
-    rejection("sluice.quantiles.sketch = tdigest")
-        .isEqualTo("Cannot set sluice.quantiles.sketch to \"tdigest\": expected one of gk, kll");
+  @ParameterizedTest
+  @CsvSource(
+      delimiter = '|',
+      value = {
+        "quantiles.relative-error | 0.001 | quantiles are now exact on tables of any size",
+        "quantiles.exact-max-count | 100000 | quantiles are now exact on tables of any size",
+        "quantiles.sketch | gk | quantiles are now exact on tables of any size",
+        "quantiles.rank-grid-size | 1000 | Spearman's rho now comes from ranks in a row sample"
+            + " (sluice.collinearity.spearman-rows)",
+      })
+  void retiredSettingsSayWhatBecameOfThem(String key, String value, String why) {
+    rejection("sluice." + key + " = " + value)
+        .isEqualTo("Setting sluice." + key + " is no longer used: " + why + "; remove it");
   }
 
   @ParameterizedTest
@@ -177,10 +179,9 @@ class ValidationTest {
       delimiter = '|',
       value = {
         "defaults.outliers.iqr-k | 0.01",
-        "quantiles.relative-error | 0.49",
-        "quantiles.exact-max-count | 0",
-        "quantiles.rank-grid-size | 2",
-        "quantiles.rank-grid-size | 100000",
+        "quantiles.pilot-rows | 1000",
+        "quantiles.max-held-values | 100000000",
+        "collinearity.spearman-rows | 1000",
         "collinearity.pair-threshold | 1",
         "collinearity.vif-limit | 1",
         "collinearity.max-columns | 2",

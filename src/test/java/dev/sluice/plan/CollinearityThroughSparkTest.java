@@ -18,7 +18,7 @@ import org.junit.jupiter.api.Test;
 import org.junit.jupiter.api.extension.ExtendWith;
 
 /**
- * Correlation, Spearman and VIF computed by the pass-2 vector aggregate, on the Longley data
+ * Correlation and VIF from the pass-2 co-moments, Spearman from the pass-1 row sample, on the Longley data
  * (NIST StRD linear regression dataset "Longley"), against published values.
  */
 @ExtendWith(SharedSpark.class)
@@ -47,15 +47,33 @@ class CollinearityThroughSparkTest {
   }
 
   @Test
-  void spearmanMatchesPublishedValuesWithinTheGridResolution(SparkSession spark) {
-    // 16 rows: a grid of 1500 intervals holds every order statistic of type 7 ((k-1)/15), which
-    // makes the mid-ranks exact; the default grid of 1000 is checked against a looser bound.
-    CollinearityFindings exact = findings(spark, "quantiles.rank-grid-size=1500");
+  void spearmanMatchesPublishedValues(SparkSession spark) {
+    // 16 rows: the row sample holds the whole table, so the ranks are exact.
+    CollinearityFindings f = findings(spark);
     // (S) Spearman on Longley as used in Commons Math's tests, checked there against R.
-    assertThat(at(exact.spearman(), exact.columns(), "y", "x1")).isCloseTo(0.982352941176471, within(1e-9));
-    assertThat(at(exact.spearman(), exact.columns(), "x3", "x4")).isCloseTo(-0.3411764705882353, within(1e-9));
-    CollinearityFindings coarse = findings(spark);
-    assertThat(at(coarse.spearman(), coarse.columns(), "y", "x1")).isCloseTo(0.982352941176471, within(5e-3));
+    assertThat(at(f.spearman(), f.columns(), "y", "x1")).isCloseTo(0.982352941176471, within(1e-12));
+    assertThat(at(f.spearman(), f.columns(), "x3", "x4")).isCloseTo(-0.3411764705882353, within(1e-12));
+  }
+
+  @Test
+  void spearmanOnARowSampleIsCloseToTheWholeTable(SparkSession spark) {
+    // 20,000 rows of a monotone but non-linear relation with noise, Spearman from a sample of
+    // 2,000 rows. Reference: Commons Math SpearmansCorrelation on all rows (D). The standard
+    // error of a sample Spearman coefficient is about (1 - rho^2) / sqrt(n) for large n
+    // (common practice, Fisher-style approximation): 3 standard errors are allowed.
+    java.util.SplittableRandom r = new java.util.SplittableRandom(21);
+    double[][] rows = new double[20_000][];
+    for (int i = 0; i < rows.length; i++) {
+      double x = r.nextGaussian();
+      rows[i] = new double[] {x, Math.exp(x) + r.nextGaussian()};
+    }
+    Dataset<Row> data = Fixtures.doubleTable(spark, List.of("x", "y"), rows);
+    CollinearityFindings f = Sluice.fit(data, settings("defaults.outliers.method=none",
+        "collinearity.spearman-rows=2000"), List.of()).plan().collinearity();
+    double whole = new SpearmansCorrelation().correlation(column(rows, 0), column(rows, 1));
+    double se = (1 - whole * whole) / Math.sqrt(2000);
+    assertThat(at(f.spearman(), f.columns(), "x", "y")).isCloseTo(whole, within(3 * se))
+        .isNotEqualTo(whole);
   }
 
   @Test
@@ -95,7 +113,8 @@ class CollinearityThroughSparkTest {
     assertThat(at(none.pearson(), none.columns(), "y", "x1")).isCloseTo(ref[0][1], within(1e-12));
     assertThat(at(none.pearson(), none.columns(), "x3", "x4")).isCloseTo(ref[3][4], within(1e-12));
     double rho = new SpearmansCorrelation().correlation(column(filled, 0), column(filled, 1));
-    assertThat(at(none.spearman(), none.columns(), "y", "x1")).isCloseTo(rho, within(0.02));
+    // The whole table is in the row sample: its Spearman after imputation is exact.
+    assertThat(at(none.spearman(), none.columns(), "y", "x1")).isCloseTo(rho, within(1e-12));
   }
 
   private static Dataset<Row> data(SparkSession spark, double[][] rows) {

@@ -1,0 +1,217 @@
+package dev.sluice.profile;
+
+import dev.sluice.stats.DistinctCount;
+import dev.sluice.stats.HashedCounts;
+import dev.sluice.stats.NumericSteps;
+import dev.sluice.stats.OrderWindows;
+import dev.sluice.stats.RowSample;
+import dev.sluice.stats.ScaledMoments;
+import org.apache.spark.sql.catalyst.InternalRow;
+import org.apache.spark.unsafe.types.UTF8String;
+
+/**
+ * Pass 1 over one partition: every column's counts, the moments and order-statistic windows of
+ * the measured columns, distinct counts and most frequent values of categorical columns, date
+ * ranges, and the canonical row sample of the treated columns. Merged across partitions into the
+ * table's figures.
+ */
+final class ProfileAccumulator implements RowScan.Accumulator<ProfileAccumulator> {
+  private static final long serialVersionUID = 1L;
+  /** Distinct values counted exactly before the count turns into a HyperLogLog estimate. */
+  static final int EXACT_DISTINCT = 100_000;
+  /** Distinct values of a categorical column whose occurrences are counted for the mode. */
+  static final int COUNTED_VALUES = 100_000;
+
+  private final ProfileLayout layout;
+  private final NumericSteps[] validity;
+  /** Measured columns (projection order) that the sample holds, in sample order. */
+  private final int[] sampled;
+  private final int sampleRows;
+  /**
+   * Rows whose content hash is at or above this never reach the sample: with a little more than
+   * the sample's share of the table's rows below it, the sample's own threshold almost surely ends
+   * below it, and the cut depends only on the row count, so the sample stays a function of the
+   * data alone. It spares most rows the sample's bookkeeping while it fills.
+   */
+  private final long sampleCut;
+
+  long rows;
+  final long[] present;
+  final long[] nan;
+  final long[] infinite;
+  final long[] invalid;
+  final ScaledMoments[] moments;
+  final OrderWindows[] windows;
+  final DistinctCount[] distinct;
+  final HashedCounts<UTF8String>[] values;
+  final long[] earliest;
+  final long[] latest;
+  final RowSample sample;
+  private transient double[] sampleRow;
+
+  /**
+   * @param validity per measured column (projection order), its validity bounds
+   * @param windows per measured column, the first pass of its quartile search
+   * @param sampled measured columns the row sample holds; sampleRows its capacity (0: no sample)
+   */
+  @SuppressWarnings("unchecked")
+  ProfileAccumulator(ProfileLayout layout, NumericSteps[] validity, OrderWindows[] windows,
+      int[] sampled, int sampleRows, long sampleCut) {
+    int n = layout.names.length;
+    this.layout = layout;
+    this.validity = validity;
+    this.sampled = sampled;
+    this.sampleRows = sampleRows;
+    this.sampleCut = sampleCut;
+    this.present = new long[n];
+    this.nan = new long[layout.measured];
+    this.infinite = new long[layout.measured];
+    this.invalid = new long[layout.measured];
+    this.moments = new ScaledMoments[layout.measured];
+    this.windows = new OrderWindows[layout.measured];
+    for (int j = 0; j < layout.measured; j++) {
+      moments[j] = new ScaledMoments();
+      this.windows[j] = windows[j].emptyCopy();
+    }
+    this.distinct = new DistinctCount[n];
+    this.values = new HashedCounts[n];
+    this.earliest = new long[n];
+    this.latest = new long[n];
+    for (int i = 0; i < n; i++) {
+      switch (layout.reads[i]) {
+        case CATEGORICAL:
+          values[i] = new HashedCounts<>(COUNTED_VALUES);
+          distinct[i] = new DistinctCount(EXACT_DISTINCT);
+          break;
+        case IDENTIFIER:
+          distinct[i] = new DistinctCount(EXACT_DISTINCT);
+          break;
+        case DATE:
+        case TIMESTAMP:
+        case LOCAL_TIMESTAMP:
+          earliest[i] = Long.MAX_VALUE;
+          latest[i] = Long.MIN_VALUE;
+          break;
+        default:
+          break;
+      }
+    }
+    this.sample = sampled.length >= 2 && sampleRows > 0 ? new RowSample(sampleRows, sampled.length) : null;
+  }
+
+  /** The cut for a sample of {@code sampleRows} out of {@code rows}: see {@link #sampleCut}. */
+  static long sampleCut(int sampleRows, long rows) {
+    // The k-th smallest of n uniform hashes lies near k / n with a spread of about sqrt(k) / n:
+    // ten such spreads of margin leave it below the cut in all but astronomically rare cases.
+    double share = (sampleRows + 10.0 * Math.sqrt(sampleRows) + 10.0) / Math.max(1, rows);
+    return share >= 1.0 ? Long.MAX_VALUE : Long.MIN_VALUE + 2 * (long) (share * 0x1p63);
+  }
+
+  /** An empty accumulator over the same layout and windows, for one partition. */
+  ProfileAccumulator emptyCopy() {
+    return new ProfileAccumulator(layout, validity, windows, sampled, sampleRows, sampleCut);
+  }
+
+  @Override
+  public void add(InternalRow row) {
+    rows++;
+    for (int j = 0; j < layout.measured; j++) {
+      if (row.isNullAt(j)) {
+        continue;
+      }
+      double x = row.getDouble(j);
+      if (Double.isNaN(x)) {
+        nan[j]++;
+      } else if (Double.isInfinite(x)) {
+        infinite[j]++;
+      } else if (validity[j].invalid(x)) {
+        invalid[j]++;
+      } else {
+        moments[j].add(x);
+        windows[j].add(x);
+      }
+    }
+    for (int i : layout.categorical) {
+      countText(row, i);
+    }
+    for (int i : layout.rest) {
+      countOther(row, i);
+    }
+    if (sample != null) {
+      if (sampleRow == null) {
+        sampleRow = new double[sampled.length];
+      }
+      for (int s = 0; s < sampled.length; s++) {
+        int j = sampled[s];
+        sampleRow[s] = row.isNullAt(j) ? Double.NaN : row.getDouble(j);
+      }
+      if (RowSample.hash(sampleRow) < sampleCut) {
+        sample.add(sampleRow);
+      }
+    }
+  }
+
+  /** A categorical column: its value counted by hash, for the mode and the distinct count. */
+  private void countText(InternalRow row, int i) {
+    int at = layout.at[i];
+    if (row.isNullAt(at)) {
+      return;
+    }
+    present[i]++;
+    long hash = row.getLong(layout.hashAt[i]);
+    if (!values[i].increment(hash)) {
+      values[i].insert(hash, row.getUTF8String(at).copy());
+    }
+    distinct[i].add(hash);
+  }
+
+  /** Identifier, date, timestamp and other columns: presence, distinct hashes, range. */
+  private void countOther(InternalRow row, int i) {
+    ProfileLayout.Read read = layout.reads[i];
+    int at = layout.at[i];
+    if (read == ProfileLayout.Read.OTHER) {
+      if (!row.getBoolean(at)) {
+        present[i]++;
+      }
+      return;
+    }
+    if (row.isNullAt(at)) {
+      return;
+    }
+    present[i]++;
+    if (read == ProfileLayout.Read.IDENTIFIER) {
+      distinct[i].add(row.getLong(at));
+    } else if (read != ProfileLayout.Read.MEASURED) {
+      long v = read == ProfileLayout.Read.DATE ? row.getInt(at) : row.getLong(at);
+      earliest[i] = Math.min(earliest[i], v);
+      latest[i] = Math.max(latest[i], v);
+    }
+  }
+
+  @Override
+  public ProfileAccumulator merge(ProfileAccumulator o) {
+    rows += o.rows;
+    for (int i = 0; i < present.length; i++) {
+      present[i] += o.present[i];
+      if (values[i] != null) {
+        values[i].merge(o.values[i]);
+      }
+      if (distinct[i] != null) {
+        distinct[i].merge(o.distinct[i]);
+      }
+      earliest[i] = Math.min(earliest[i], o.earliest[i]);
+      latest[i] = Math.max(latest[i], o.latest[i]);
+    }
+    for (int j = 0; j < layout.measured; j++) {
+      nan[j] += o.nan[j];
+      infinite[j] += o.infinite[j];
+      invalid[j] += o.invalid[j];
+      moments[j].merge(o.moments[j]);
+      windows[j].merge(o.windows[j]);
+    }
+    if (sample != null) {
+      sample.merge(o.sample);
+    }
+    return this;
+  }
+}

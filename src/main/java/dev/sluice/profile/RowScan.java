@@ -1,0 +1,122 @@
+package dev.sluice.profile;
+
+import java.io.Serializable;
+import java.util.ArrayList;
+import java.util.Iterator;
+import java.util.List;
+import org.apache.spark.api.java.JavaRDD;
+import org.apache.spark.sql.Column;
+import org.apache.spark.sql.Dataset;
+import org.apache.spark.sql.Row;
+import org.apache.spark.sql.catalyst.InternalRow;
+
+/**
+ * Runs a plain-Java accumulator over every row of a projection of a table, in one Spark job: each
+ * partition fills its own accumulator, and the accumulators are merged in a tree on the way to the
+ * driver, as MLlib's own summarizers do.
+ *
+ * <p>Why not a Spark aggregate: the statistics here (exact order statistics, co-moments of many
+ * columns, a canonical row sample) are vector accumulators that Spark's aggregate framework can
+ * only run through its object-based path, where every value is boxed. The projection below the
+ * loop is still Catalyst: columns are cast and pruned by Spark and read from its binary rows.
+ */
+public final class RowScan {
+  /**
+   * Partitions above which accumulators are merged in two levels: below, the driver merges them
+   * all itself, which saves a shuffle of every accumulator.
+   */
+  static final int TREE_FROM = 64;
+
+  private RowScan() {}
+
+  /** A per-partition accumulator: filled one row at a time, then merged with others. */
+  public interface Accumulator<A extends Accumulator<A>> extends Serializable {
+    /** Adds one row of the projection. The row object may be reused by Spark after the call. */
+    void add(InternalRow row);
+
+    /** Folds another partition's accumulator into this one and returns this. */
+    A merge(A other);
+  }
+
+  /** Makes an empty accumulator; sent to every task. */
+  public interface Empty<A> extends Serializable {
+    A make();
+  }
+
+  /** The rows of a projection as Spark's own binary rows, for a loop in Java. */
+  public static JavaRDD<InternalRow> rows(Dataset<Row> data, List<Column> projection) {
+    Dataset<Row> projected = projection.isEmpty()
+        ? data.select(org.apache.spark.sql.functions.lit(true))
+        : data.select(projection.toArray(new Column[0]));
+    return projected.queryExecution().toRdd().toJavaRDD();
+  }
+
+  /** One pass: every row of {@code rows} added to accumulators made by {@code empty}, merged. */
+  public static <A extends Accumulator<A>> A fold(JavaRDD<InternalRow> rows, Empty<A> empty) {
+    if (rows.getNumPartitions() == 0) {
+      return empty.make();
+    }
+    return rows.mapPartitions((Iterator<InternalRow> it) -> {
+      A acc = empty.make();
+      while (it.hasNext()) {
+        acc.add(it.next());
+      }
+      return List.of(acc).iterator();
+    }).treeReduce((a, b) -> a.merge(b), rows.getNumPartitions() > TREE_FROM ? 2 : 1);
+  }
+
+  /**
+   * A pilot sample: the first rows of up to {@code parts} partitions spread evenly over the table,
+   * about {@code wanted} rows in all, as doubles (NaN for null), one array per column of the
+   * projection. Reads only the start of the partitions it samples.
+   */
+  public static double[][] pilot(JavaRDD<InternalRow> rows, int columns, int wanted, int parts) {
+    int total = rows.getNumPartitions();
+    double[][] out = new double[columns][];
+    if (total == 0 || wanted <= 0) {
+      for (int j = 0; j < columns; j++) {
+        out[j] = new double[0];
+      }
+      return out;
+    }
+    int k = Math.min(parts, total);
+    int[] ids = new int[k];
+    for (int i = 0; i < k; i++) {
+      ids[i] = k == 1 ? 0 : (int) Math.round((double) i * (total - 1) / (k - 1));
+    }
+    int each = (wanted + k - 1) / k;
+    List<double[][]>[] taken = rows.mapPartitions((Iterator<InternalRow> it) -> {
+      List<double[]> got = new ArrayList<>();
+      while (got.size() < each && it.hasNext()) {
+        InternalRow r = it.next();
+        double[] v = new double[columns];
+        for (int j = 0; j < columns; j++) {
+          v[j] = r.isNullAt(j) ? Double.NaN : r.getDouble(j);
+        }
+        got.add(v);
+      }
+      return java.util.Collections.singletonList(got.toArray(new double[0][])).iterator();
+    }).collectPartitions(ids);
+    int n = 0;
+    for (List<double[][]> part : taken) {
+      for (double[][] block : part) {
+        n += block.length;
+      }
+    }
+    for (int j = 0; j < columns; j++) {
+      out[j] = new double[n];
+    }
+    int i = 0;
+    for (List<double[][]> part : taken) {
+      for (double[][] block : part) {
+        for (double[] v : block) {
+          for (int j = 0; j < columns; j++) {
+            out[j][i] = v[j];
+          }
+          i++;
+        }
+      }
+    }
+    return out;
+  }
+}

@@ -1,0 +1,137 @@
+package dev.sluice.treat;
+
+import dev.sluice.plan.TreatedStats;
+import dev.sluice.profile.RowScan;
+import dev.sluice.stats.CoMoments;
+import dev.sluice.stats.Frequencies;
+import dev.sluice.stats.NumericSteps;
+import dev.sluice.stats.OrderWindows;
+import dev.sluice.stats.ScaledMoments;
+import org.apache.spark.sql.catalyst.InternalRow;
+
+/**
+ * Pass 2 over one partition. Column k of the projection is treated column k as DOUBLE; each value
+ * goes through the validity and outlier steps, then feeds the column's moments, its quartile
+ * windows and mode counts where the plan needs them, the counts beyond each fence, and the row of
+ * co-moments.
+ */
+final class TreatedAccumulator implements RowScan.Accumulator<TreatedAccumulator> {
+  private static final long serialVersionUID = 1L;
+  /** Distinct treated values counted for a mode, at most. */
+  static final int COUNTED_VALUES = 1_000_000;
+  /** Positions in a column's limits: inner, outer and action limits, lower then upper. */
+  private static final int LIMITS = 6;
+
+  private final NumericSteps[] steps;
+  private final double[][] limits;
+  private final boolean[] mode;
+  private final int[] corrIndex;
+
+  final ScaledMoments[] moments;
+  final long[][] beyond;
+  final OrderWindows[] windows;
+  final Frequencies<Double>[] modes;
+  final CoMoments comoments;
+  private transient double[] corrRow;
+
+  /**
+   * @param limits per column: inner lower, inner upper, outer lower, outer upper, action lower,
+   *     action upper (infinite where there is none)
+   * @param windows per column, the first windows of its quartile search, or null
+   * @param corrIndex per column, its position in the co-moments, or -1
+   * @param comoments an empty accumulator of the co-moments, or null
+   */
+  @SuppressWarnings("unchecked")
+  TreatedAccumulator(NumericSteps[] steps, double[][] limits, OrderWindows[] windows, boolean[] mode,
+      int[] corrIndex, CoMoments comoments) {
+    int p = steps.length;
+    this.steps = steps;
+    this.limits = limits;
+    this.mode = mode;
+    this.corrIndex = corrIndex;
+    this.moments = new ScaledMoments[p];
+    this.beyond = new long[p][LIMITS];
+    this.windows = new OrderWindows[p];
+    this.modes = new Frequencies[p];
+    for (int k = 0; k < p; k++) {
+      moments[k] = new ScaledMoments();
+      this.windows[k] = windows[k] == null ? null : windows[k].emptyCopy();
+      modes[k] = mode[k] ? new Frequencies<>(COUNTED_VALUES) : null;
+    }
+    this.comoments = comoments == null ? null : comoments.emptyCopy();
+  }
+
+  TreatedAccumulator emptyCopy() {
+    return new TreatedAccumulator(steps, limits, windows, mode, corrIndex, comoments);
+  }
+
+  @Override
+  public void add(InternalRow row) {
+    if (comoments != null && corrRow == null) {
+      corrRow = new double[comoments.dimension()];
+    }
+    for (int k = 0; k < steps.length; k++) {
+      double t = Double.NaN;
+      if (!row.isNullAt(k)) {
+        double v = steps[k].valid(row.getDouble(k));
+        if (!Double.isNaN(v)) {
+          double[] l = limits[k];
+          long[] b = beyond[k];
+          for (int i = 0; i < LIMITS; i += 2) {
+            if (v < l[i]) {
+              b[i]++;
+            }
+            if (v > l[i + 1]) {
+              b[i + 1]++;
+            }
+          }
+          t = steps[k].afterOutliers(v);
+        }
+      }
+      if (!Double.isNaN(t)) {
+        moments[k].add(t);
+        if (windows[k] != null) {
+          windows[k].add(t);
+        }
+        if (modes[k] != null) {
+          modes[k].add(t + 0.0);
+        }
+      }
+      if (corrIndex[k] >= 0 && corrRow != null) {
+        corrRow[corrIndex[k]] = t;
+      }
+    }
+    if (comoments != null) {
+      comoments.add(corrRow);
+    }
+  }
+
+  @Override
+  public TreatedAccumulator merge(TreatedAccumulator o) {
+    for (int k = 0; k < steps.length; k++) {
+      moments[k].merge(o.moments[k]);
+      for (int i = 0; i < LIMITS; i++) {
+        beyond[k][i] += o.beyond[k][i];
+      }
+      if (windows[k] != null) {
+        windows[k].merge(o.windows[k]);
+      }
+      if (modes[k] != null) {
+        modes[k].merge(o.modes[k]);
+      }
+    }
+    if (comoments != null) {
+      comoments.merge(o.comoments);
+    }
+    return this;
+  }
+
+  /** The figures of column k, with its quartiles found by the search. */
+  TreatedStats.ColumnStats stats(int k, double[] q) {
+    ScaledMoments m = moments[k];
+    Double top = modes[k] == null ? null : modes[k].top();
+    long[] b = beyond[k];
+    return new TreatedStats.ColumnStats(m.count(), m.mean(), m.stddev(), m.min(), m.max(),
+        q[0], q[1], q[2], top == null ? Double.NaN : top, b[0], b[1], b[2], b[3], b[4], b[5]);
+  }
+}
