@@ -171,4 +171,20 @@ class EdgeCaseTest {
     assertThat(p.invalid()).isEqualTo(2_998);
     assertThat(Double.isNaN(p.median())).isTrue();
   }
+
+  @Test
+  void aCategoricalColumnWithTooManyDistinctValuesHasNoModeAndIsNotFilled(SparkSession spark) {
+    // 100,001 distinct labels plus one gap: one past the 100,000 values counted exactly.
+    Dataset<Row> data = spark.range(100_002).selectExpr(
+        "CASE WHEN id = 5 THEN NULL ELSE concat('lot-', CAST(id AS STRING)) END AS lot_label");
+    Sluice.Fit f = fit(data);
+    var p = f.profile().column("lot_label").orElseThrow();
+    assertThat(p.topValue()).isNull();
+    assertThat(p.nulls()).isEqualTo(1);
+    // The HyperLogLog estimate (lgK 12, relative standard error about 1.6 %, DataSketches).
+    assertThat(p.distinct()).isBetween(95_000L, 105_000L);
+    var missing = f.plan().column("lot_label").orElseThrow().missing();
+    assertThat(missing.fillText()).isNull();
+    assertThat(missing.reason()).startsWith("too many distinct values");
+  }
 }

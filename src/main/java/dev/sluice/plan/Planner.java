@@ -148,7 +148,9 @@ public final class Planner {
           "configured constant");
     }
     if (c.topValue() == null) {
-      return MissingPlan.untouched("no values to take the mode from: missing values left missing");
+      return MissingPlan.untouched(c.rows() > c.nulls()
+          ? "too many distinct values to count a most frequent one: missing values left missing"
+          : "no values to take the mode from: missing values left missing");
     }
     return new MissingPlan(false, "mode", null, c.topValue(), m.indicator(), false,
         "most frequent value (categorical columns are filled with the mode)");
