@@ -98,8 +98,12 @@ public final class Profiler {
     for (int s : sampled) {
       sampleNames.add(layout.names[measured[s]]);
     }
+    Map<String, RankSearch> quartiles = new LinkedHashMap<>();
+    for (int k = 0; k < measured.length; k++) {
+      quartiles.put(layout.names[measured[k]], searches.get(k));
+    }
     return new TableProfile(acc.rows, List.copyOf(columns), sampleNames, acc.sample,
-        pilotByName);
+        pilotByName, quartiles);
   }
 
   private static Double boxed(java.util.OptionalDouble d) {

@@ -1,5 +1,6 @@
 package dev.sluice.profile;
 
+import dev.sluice.stats.RankSearch;
 import dev.sluice.stats.RowSample;
 import java.util.List;
 import java.util.Map;
@@ -14,13 +15,16 @@ import java.util.Optional;
  *     correlations; null when sampleColumns is empty
  * @param pilot per measured column, its raw values in the pilot sample (NaN for null; empty when
  *     the table was small enough to need none): where later searches place their first windows
+ * @param quartiles per measured column, its finished quartile search, which also gives the
+ *     quartiles of the column under any order-keeping step such as capping
  */
 public record TableProfile(
     long rows,
     List<ColumnProfile> columns,
     List<String> sampleColumns,
     RowSample sample,
-    Map<String, double[]> pilot) {
+    Map<String, double[]> pilot,
+    Map<String, RankSearch> quartiles) {
 
   public Optional<ColumnProfile> column(String name) {
     return columns.stream().filter(c -> c.name().equals(name)).findFirst();

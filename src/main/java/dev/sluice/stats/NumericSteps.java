@@ -50,6 +50,11 @@ public final class NumericSteps implements Serializable {
     return d == null ? Double.POSITIVE_INFINITY : d;
   }
 
+  /** True when the outlier step removes values (set-missing, quarantine): it changes their number. */
+  public boolean removes() {
+    return action == Action.REMOVE;
+  }
+
   /** True for a finite value outside the validity bounds: an incorrect entry. */
   public boolean invalid(double x) {
     return Double.isFinite(x) && (x < validMin || x > validMax);

@@ -282,6 +282,17 @@ public final class RankSearch {
    * @throws IllegalStateException when the search is not done
    */
   public double[] quantiles() {
+    return quantiles(x -> x);
+  }
+
+  /**
+   * The type 7 quantiles of {@code f} applied to every value, for a non-decreasing f: f keeps the
+   * order, so the order statistics of f(x) are f of the order statistics found here. Capping at
+   * fixed limits is such an f, which spares a search over capped values.
+   *
+   * @throws IllegalStateException when the search is not done
+   */
+  public double[] quantiles(java.util.function.DoubleUnaryOperator f) {
     if (!done()) {
       throw new IllegalStateException("The quantiles are not found yet");
     }
@@ -293,13 +304,13 @@ public final class RankSearch {
       }
       double h = (count - 1) * probabilities[i];
       long below = (long) Math.floor(h);
-      double a = valueAt(below + 1);
+      double a = f.applyAsDouble(valueAt(below + 1));
       double fraction = h - below;
       if (below + 1 >= count || fraction == 0.0) {
         out[i] = a;
         continue;
       }
-      out[i] = Quantiles.between(a, valueAt(below + 2), fraction);
+      out[i] = Quantiles.between(a, f.applyAsDouble(valueAt(below + 2)), fraction);
     }
     return out;
   }

@@ -73,7 +73,7 @@ public final class TreatedStatsPass {
       RankSearch search = new RankSearch(QUARTILES, maxHeld);
       searches.add(search);
       targets.add(new SearchPass.Target(k, steps[k], true, Double.NaN));
-      if (needsQuartiles(cs)) {
+      if (needsQuartiles(cs) && steps[k].removes()) {
         double[] pilot = treatedPilot(profile.pilotOf(c.name()), steps[k]);
         long expected = profile.pilotOf(c.name()).length == 0 ? profile.rows()
             : (long) Math.ceil((double) profile.rows() * pilot.length / profile.pilotOf(c.name()).length);
@@ -113,12 +113,25 @@ public final class TreatedStatsPass {
     SearchPass.complete(rows, open, openSearches, List.of());
     Map<String, TreatedStats.ColumnStats> stats = new LinkedHashMap<>();
     for (int k = 0; k < p; k++) {
-      double[] q = first[k] == null || acc.moments[k].count() == 0
-          ? new double[] {Double.NaN, Double.NaN, Double.NaN} : searches.get(k).quantiles();
+      double[] q = quartiles(cols.get(k), settings, profile, steps[k], first[k] == null ? null : searches.get(k),
+          acc.moments[k].count());
       stats.put(cols.get(k).name(), acc.stats(k, q));
     }
     return new TreatedStats(stats, correlate ? List.copyOf(corrNames) : List.of(),
         correlate ? acc.comoments : null);
+  }
+
+  /**
+   * Quartiles of the values after the outlier step, where imputation or scaling needs them. Capping
+   * and leaving values keep their order and their number, so the quartiles follow exactly from
+   * the pass-1 order statistics, capped; only removal needed a search of its own in this pass.
+   */
+  private static double[] quartiles(ColumnProfile c, Settings settings, TableProfile profile,
+      NumericSteps steps, RankSearch own, long present) {
+    if (!needsQuartiles(settings.column(c.name())) || present == 0) {
+      return new double[] {Double.NaN, Double.NaN, Double.NaN};
+    }
+    return own != null ? own.quantiles() : profile.quartiles().get(c.name()).quantiles(steps::afterOutliers);
   }
 
   private static double low(Double limit) {

@@ -162,6 +162,18 @@ class RankSearchTest {
   }
 
   @Test
+  void quartilesOfCappedValuesFollowFromTheOrderStatistics() {
+    // Capping keeps order and count: the search over raw values gives the capped quartiles.
+    // Reference: our sorted-array type 7 (and Commons Math R_7) on the capped values themselves.
+    double[] data = lognormal(20_000, 23);
+    RankSearch s = search(data, Arrays.copyOf(data, 2_000), QUARTILES, 1_000, 3);
+    double lo = 0.8;
+    double hi = 1.1; // inside the quartile range on purpose: the cap moves Q1 and Q3
+    double[] capped = Arrays.stream(data).map(x -> Math.min(hi, Math.max(lo, x))).toArray();
+    assertType7(s.quantiles(x -> Math.min(hi, Math.max(lo, x))), capped, QUARTILES);
+  }
+
+  @Test
   void edgeCases() {
     RankSearch empty = search(new double[0], new double[0], QUARTILES, 10, 2);
     assertThat(empty.count()).isZero();
