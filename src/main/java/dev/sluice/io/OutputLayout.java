@@ -42,14 +42,15 @@ public final class OutputLayout {
   }
 
   /**
-   * Checks the output directory and creates this run's staging directory. A regular file, or a
-   * non-empty directory that holds anything not written by Sluice, is refused unless
-   * {@code replace} is set.
+   * Checks the output directory and creates this run's staging directory. A regular file at or
+   * above the output path is refused; so is a non-empty directory that holds anything not written
+   * by Sluice, unless {@code replace} is set.
    */
   public static OutputLayout prepare(Configuration conf, String output, String runId, boolean replace) {
     try {
       Path root = new Path(output);
       FileSystem fs = root.getFileSystem(conf);
+      checkNotUnderAFile(fs, root, output);
       if (fs.exists(root)) {
         FileStatus st = fs.getFileStatus(root);
         if (!st.isDirectory()) {
@@ -70,6 +71,19 @@ public final class OutputLayout {
       return new OutputLayout(fs, root, staging);
     } catch (IOException e) {
       throw SluiceException.input("Cannot prepare output " + output + ": " + e.getMessage(), e);
+    }
+  }
+
+  /** The nearest existing ancestor must be a directory: a file there is a usage error too. */
+  private static void checkNotUnderAFile(FileSystem fs, Path root, String output) throws IOException {
+    for (Path p = root.getParent(); p != null; p = p.getParent()) {
+      if (fs.exists(p)) {
+        if (!fs.getFileStatus(p).isDirectory()) {
+          throw SluiceException.usage("Output " + output + " lies under " + p.toUri().getPath()
+              + ", which is a file, not a directory");
+        }
+        return;
+      }
     }
   }
 

@@ -140,13 +140,13 @@ class PathsTest {
 
   @Test
   void outputBelowARegularFileIsNamed(SparkSession spark) {
-    // A file where a directory is expected, one level up. The job maps failures to prepare the
-    // output directory to exit 3, like other filesystem failures.
+    // A file where a directory is expected, one level up: bad usage (exit 2), like an output path
+    // that is itself a file.
     Path in = palletChecks(spark, tmp.resolve("checks"), 12);
     Path file = Corpus.text(tmp.resolve("notes.txt"), "x\n");
     Path out = file.resolve("out");
     Corpus.Result r = run("run", in, out);
-    assertRefused(r, 3, "Cannot prepare output " + out + ": Parent path is not a directory: " + file, null);
+    assertRefused(r, 2, "Output " + out + " lies under " + file + ", which is a file, not a directory", null);
   }
 
   @Test
