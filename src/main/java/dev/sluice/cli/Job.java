@@ -74,7 +74,9 @@ public final class Job {
     Sluice.Fit fit = Sluice.fit(selected.wellFormed(), settings, table.partitionColumns(), this::say);
     Map<String, Double> seconds = new LinkedHashMap<>(fit.seconds());
     Map<String, Object> rows = new LinkedHashMap<>();
-    long read = selected.malformedColumn().isPresent() ? selected.data().count() : fit.profile().rows();
+    // Malformed CSV lines are read but not profiled: count them in, from the read's own count.
+    long read = selected.malformedColumn().isEmpty() ? fit.profile().rows()
+        : selected.rowsRead().isPresent() ? selected.rowsRead().getAsLong() : selected.data().count();
     rows.put("read", read);
     if (args.command().equals("run")) {
       say("pass 3 of 3: treating and writing " + args.output() + "/treated");
@@ -101,7 +103,7 @@ public final class Job {
       Dataset<Row> filtered = table.data().filter(functions.expr(predicate));
       filtered.schema();
       return new InputTable(filtered, table.path(), table.format(), table.partitionColumns(),
-          table.malformedColumn());
+          table.malformedColumn(), java.util.OptionalLong.empty());
     } catch (Exception e) {
       throw SluiceException.usage("Cannot use --where " + predicate + ": "
           + TableReader.firstLineOf(e.getMessage()));

@@ -5,8 +5,10 @@ import dev.sluice.config.InputSettings;
 import java.util.Arrays;
 import java.util.List;
 import java.util.Optional;
+import java.util.OptionalLong;
 import org.apache.hadoop.fs.FileStatus;
 import org.apache.hadoop.fs.Path;
+import org.apache.spark.sql.Column;
 import org.apache.spark.sql.DataFrameReader;
 import org.apache.spark.sql.Dataset;
 import org.apache.spark.sql.Row;
@@ -46,10 +48,11 @@ final class CsvInput {
         .schema(withRaw)
         .load(path)
         .persist(StorageLevel.MEMORY_AND_DISK());
-    checkParses(data, path);
+    long rows = checkParses(data, path);
     List<String> partitions = directory(spark, path)
         .map(st -> TableReader.partitionColumns(spark, st)).orElse(List.of());
-    return new InputTable(data, path, "csv", partitions, Optional.of(InputTable.MALFORMED_COLUMN));
+    return new InputTable(data, path, "csv", partitions, Optional.of(InputTable.MALFORMED_COLUMN),
+        OptionalLong.of(rows));
   }
 
   private static StructType configuredSchema(String ddl) {
@@ -106,28 +109,30 @@ final class CsvInput {
   }
 
   /**
-   * Reads the table once into its cache, so that a header that disagrees with the configured
-   * schema fails here with the path, and refuses a malformed record that spans several lines:
-   * a quote that is never closed swallows the lines after it, and those rows could not be told
-   * apart any more.
+   * Reads the table once into its cache and returns its row count, well-formed or not, so that a
+   * header that disagrees with the configured schema fails here with the path. Refuses a malformed
+   * record that spans several lines: a quote that is never closed swallows the lines after it, and
+   * those rows could not be told apart any more. One aggregate gives both answers.
    */
-  private static void checkParses(Dataset<Row> data, String path) {
-    List<Row> spanning;
+  private static long checkParses(Dataset<Row> data, String path) {
+    Row r;
     try {
-      spanning = data.filter(functions.col(InputTable.MALFORMED_COLUMN).rlike("[\\r\\n]"))
-          .select(InputTable.MALFORMED_COLUMN).limit(1).collectAsList();
+      Column raw = functions.col(InputTable.MALFORMED_COLUMN);
+      r = data.agg(functions.count(functions.lit(1)),
+          functions.first(functions.when(raw.rlike("[\\r\\n]"), raw), true)).first();
     } catch (Exception e) {
       data.unpersist();
       throw SluiceException.input(
           "Cannot read " + path + " as csv: " + TableReader.firstLine(e.getMessage()), e);
     }
-    if (!spanning.isEmpty()) {
+    if (!r.isNullAt(1)) {
       data.unpersist();
-      String text = spanning.get(0).getString(0);
+      String text = r.getString(1);
       String start = text.substring(0, Math.min(40, text.length())).replaceAll("[\\r\\n]+", " | ");
       throw SluiceException.input("CSV input " + path + " has a malformed record that spans several"
           + " lines, most likely a quote that is never closed; it begins \"" + start + "\"");
     }
+    return r.getLong(0);
   }
 
   private static boolean isNumber(String text) {
