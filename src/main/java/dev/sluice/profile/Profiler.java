@@ -51,25 +51,17 @@ public final class Profiler {
     long rows = data.count();
     ProfileLayout layout = ProfileLayout.of(data.schema(), roles);
     int[] measured = layout.measuredColumns();
-    int maxHeld = settings.quantiles().maxHeldValues();
     JavaRDD<InternalRow> numeric = RowScan.rows(data, layout.measuredProjection());
-    double[][] pilot = rows > maxHeld && measured.length > 0
+    double[][] pilot = rows > settings.quantiles().maxHeldValues() && measured.length > 0
         ? RowScan.pilot(numeric, measured.length, pilotRows(settings, measured.length), PILOT_PARTITIONS)
         : new double[measured.length][0];
     NumericSteps[] validity = new NumericSteps[measured.length];
-    List<RankSearch> searches = new ArrayList<>();
-    OrderWindows[] first = new OrderWindows[measured.length];
-    Map<String, double[]> pilotByName = new LinkedHashMap<>();
     for (int j = 0; j < measured.length; j++) {
-      String name = layout.names[measured[j]];
-      ColumnSettings cs = settings.column(name);
+      ColumnSettings cs = settings.column(layout.names[measured[j]]);
       validity[j] = NumericSteps.validity(boxed(cs.validMin()), boxed(cs.validMax()));
-      double[] usable = usable(pilot[j], validity[j]);
-      pilotByName.put(name, pilot[j]);
-      RankSearch search = new RankSearch(QUARTILES, maxHeld);
-      first[j] = search.firstPlan(usable, expected(rows, usable.length, pilot[j].length));
-      searches.add(search);
     }
+    List<RankSearch> searches = new ArrayList<>();
+    OrderWindows[] first = firstWindows(settings, validity, pilot, rows, searches);
     int[] sampled = sampledColumns(layout, measured, settings);
     int sampleRows = Math.min(settings.collinearity().spearmanRows(),
         Math.max(1_000, VALUE_BUDGET / Math.max(1, sampled.length)));
@@ -83,27 +75,48 @@ public final class Profiler {
     }
     SearchPass.complete(numeric, targets, searches, List.of());
     double[] mad = mads(numeric, layout, measured, settings, validity, searches, pilot, rows);
-    String[] texts = temporalTexts(data.sparkSession(), layout, acc);
-    List<ColumnProfile> columns = new ArrayList<>();
-    int j = 0;
-    for (int i = 0; i < layout.names.length; i++) {
-      if (layout.reads[i] == ProfileLayout.Read.MEASURED) {
-        columns.add(measuredProfile(layout, i, acc, j, searches.get(j).quantiles(), mad[j], rows));
-        j++;
-      } else {
-        columns.add(otherProfile(layout, i, acc, rows, texts[2 * i], texts[2 * i + 1]));
-      }
+    Map<String, double[]> pilotByName = new LinkedHashMap<>();
+    Map<String, RankSearch> quartiles = new LinkedHashMap<>();
+    for (int j = 0; j < measured.length; j++) {
+      pilotByName.put(layout.names[measured[j]], pilot[j]);
+      quartiles.put(layout.names[measured[j]], searches.get(j));
     }
     List<String> sampleNames = new ArrayList<>();
     for (int s : sampled) {
       sampleNames.add(layout.names[measured[s]]);
     }
-    Map<String, RankSearch> quartiles = new LinkedHashMap<>();
-    for (int k = 0; k < measured.length; k++) {
-      quartiles.put(layout.names[measured[k]], searches.get(k));
+    return new TableProfile(acc.rows, columns(data.sparkSession(), layout, acc, quartiles, mad),
+        sampleNames, acc.sample, pilotByName, quartiles);
+  }
+
+  /** Each measured column's quartile search, and the windows of its first pass. */
+  private static OrderWindows[] firstWindows(Settings settings, NumericSteps[] validity,
+      double[][] pilot, long rows, List<RankSearch> searches) {
+    OrderWindows[] first = new OrderWindows[validity.length];
+    for (int j = 0; j < validity.length; j++) {
+      double[] usable = usable(pilot[j], validity[j]);
+      RankSearch search = new RankSearch(QUARTILES, settings.quantiles().maxHeldValues());
+      first[j] = search.firstPlan(usable, expected(rows, usable.length, pilot[j].length));
+      searches.add(search);
     }
-    return new TableProfile(acc.rows, List.copyOf(columns), sampleNames, acc.sample,
-        pilotByName, quartiles);
+    return first;
+  }
+
+  /** Every column's profile, in table order. */
+  private static List<ColumnProfile> columns(SparkSession spark, ProfileLayout layout,
+      ProfileAccumulator acc, Map<String, RankSearch> quartiles, double[] mad) {
+    String[] texts = temporalTexts(spark, layout, acc);
+    List<ColumnProfile> columns = new ArrayList<>();
+    int j = 0;
+    for (int i = 0; i < layout.names.length; i++) {
+      if (layout.reads[i] == ProfileLayout.Read.MEASURED) {
+        columns.add(measuredProfile(layout, i, acc, j, quartiles.get(layout.names[i]).quantiles(), mad[j]));
+        j++;
+      } else {
+        columns.add(otherProfile(layout, i, acc, texts[2 * i], texts[2 * i + 1]));
+      }
+    }
+    return List.copyOf(columns);
   }
 
   private static Double boxed(java.util.OptionalDouble d) {
@@ -191,7 +204,7 @@ public final class Profiler {
   }
 
   private static ColumnProfile measuredProfile(ProfileLayout layout, int i, ProfileAccumulator acc, int j,
-      double[] q, double mad, long rows) {
+      double[] q, double mad) {
     ScaledMoments m = acc.moments[j];
     long usable = m.count();
     return new ColumnProfile(layout.names[i], layout.types[i], ColumnKind.NUMERIC, layout.roles[i], acc.rows,
@@ -201,7 +214,7 @@ public final class Profiler {
   }
 
   private static ColumnProfile otherProfile(ProfileLayout layout, int i, ProfileAccumulator acc,
-      long rows, String earliest, String latest) {
+      String earliest, String latest) {
     String top = null;
     long topCount = 0;
     if (acc.values[i] != null && acc.values[i].top() != null) {
