@@ -76,41 +76,4 @@ public record Moments(long count, double mean, double m2, double min, double max
       throw new IllegalArgumentException("Cannot summarise the non-finite value " + x);
     }
   }
-
-  /**
-   * Mutable, mergeable accumulator (Welford's update); NaN and infinite values are rejected.
-   * Merge accumulators through {@link Moments#merge} of their results.
-   *
-   * <p>Values are summed relative to the first value added, so a large common offset (NIST's
-   * NumAcc4: 10000000.2 +/- 0.1) costs no digits of the deviations.
-   */
-  public static final class Accumulator {
-    private long count;
-    private double shift;
-    private double shiftedMean;
-    private double m2;
-    private double min = Double.POSITIVE_INFINITY;
-    private double max = Double.NEGATIVE_INFINITY;
-
-    public void add(double x) {
-      requireFinite(x);
-      if (count == 0) {
-        shift = x;
-      }
-      count++;
-      double y = x - shift;
-      double delta = y - shiftedMean;
-      shiftedMean += delta / count;
-      m2 += delta * (y - shiftedMean);
-      min = Math.min(min, x);
-      max = Math.max(max, x);
-    }
-
-    public Moments result() {
-      if (count == 0) {
-        return EMPTY;
-      }
-      return new Moments(count, shift + shiftedMean, m2, min, max);
-    }
-  }
 }

@@ -7,8 +7,8 @@ import java.io.Serializable;
  * over the whole double range; one instance per part of a column, Java-serializable so that parts
  * can be combined on their way to the driver.
  *
- * <p>Method: Welford's update relative to a shift (the first value added, as in
- * {@link Moments.Accumulator}, so a large common offset costs no digits of the deviations), and
+ * <p>Method: Welford's update relative to a shift (the first value added, so a large common
+ * offset such as NIST's NumAcc4, 10000000.2 +/- 0.1, costs no digits of the deviations), and
  * Chan et al.'s pairwise combination for {@link #merge}. The result does not depend on how values
  * were split into parts or on the order of merges, apart from floating-point rounding.
  *

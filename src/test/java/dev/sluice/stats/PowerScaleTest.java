@@ -37,12 +37,11 @@ class PowerScaleTest {
     // Four values near the top of the double range plus two gaps filled with 1.0e308.
     double[] x = {1.7e308, 1.6e308, 1.2e308, 1.5e308};
     double[] all = {1.7e308, 1.6e308, 1.2e308, 1.5e308, 1.0e308, 1.0e308};
-    Moments.Accumulator scaled = new Moments.Accumulator();
+    ScaledMoments before = new ScaledMoments();
     for (double v : x) {
-      scaled.add(v / 1e300);
+      before.add(v);
     }
-    Moments before = scaled.result();
-    FilledMoments m = FilledMoments.of(x.length, before.mean() * 1e300, before.stddev() * 1e300,
+    FilledMoments m = FilledMoments.of(x.length, before.mean(), before.stddev(),
         1.2e308, 1.7e308, 1.0e308, 2);
     assertThat(m.count()).isEqualTo(6);
     assertThat(m.mean()).isCloseTo(exactMean(all), within(1e-12 * 1.0e308));

@@ -162,22 +162,6 @@ class ScaledMomentsTest {
     }
   }
 
-  // Not a reference check: below 2^500 the update is the one of Moments.Accumulator (already
-  // checked against NIST in MomentsTest), so one part must agree with it bit for bit.
-  @ParameterizedTest(name = "{0}")
-  @MethodSource("strdSets")
-  void ordinaryMagnitudesGiveExactlyWhatMomentsAccumulatorGives(String name) {
-    double[] data = ReferenceData.strd(name).data();
-    Moments.Accumulator acc = new Moments.Accumulator();
-    Arrays.stream(data).forEach(acc::add);
-    Moments expected = acc.result();
-    ScaledMoments m = part(data, 0, data.length);
-
-    assertThat(m.scaled()).isFalse();
-    assertThat(bits(m.mean())).isEqualTo(bits(expected.mean()));
-    assertThat(bits(m.stddev())).isEqualTo(bits(expected.stddev()));
-  }
-
   // ---- Commons Math on seeded random data
 
   /** Seeded samples: offset normal, heavy-tailed lognormal, and uniform over +/-1e200. */
