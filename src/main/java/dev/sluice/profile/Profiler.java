@@ -52,7 +52,8 @@ public final class Profiler {
     ProfileLayout layout = ProfileLayout.of(data.schema(), roles);
     int[] measured = layout.measuredColumns();
     JavaRDD<InternalRow> numeric = RowScan.rows(data, layout.measuredProjection());
-    double[][] pilot = rows > settings.quantiles().maxHeldValues() && measured.length > 0
+    int perWindow = settings.quantiles().heldPerWindow(QUARTILES.length * measured.length);
+    double[][] pilot = rows > perWindow && measured.length > 0
         ? RowScan.pilot(numeric, measured.length, pilotRows(settings, measured.length), PILOT_PARTITIONS)
         : new double[measured.length][0];
     NumericSteps[] validity = new NumericSteps[measured.length];
@@ -61,7 +62,7 @@ public final class Profiler {
       validity[j] = NumericSteps.validity(boxed(cs.validMin()), boxed(cs.validMax()));
     }
     List<RankSearch> searches = new ArrayList<>();
-    OrderWindows[] first = firstWindows(settings, validity, pilot, rows, searches);
+    OrderWindows[] first = firstWindows(perWindow, validity, pilot, rows, searches);
     int[] sampled = sampledColumns(layout, measured, settings);
     int sampleRows = Math.min(settings.collinearity().spearmanRows(),
         Math.max(1_000, VALUE_BUDGET / Math.max(1, sampled.length)));
@@ -90,12 +91,12 @@ public final class Profiler {
   }
 
   /** Each measured column's quartile search, and the windows of its first pass. */
-  private static OrderWindows[] firstWindows(Settings settings, NumericSteps[] validity,
+  private static OrderWindows[] firstWindows(int perWindow, NumericSteps[] validity,
       double[][] pilot, long rows, List<RankSearch> searches) {
     OrderWindows[] first = new OrderWindows[validity.length];
     for (int j = 0; j < validity.length; j++) {
       double[] usable = usable(pilot[j], validity[j]);
-      RankSearch search = new RankSearch(QUARTILES, settings.quantiles().maxHeldValues());
+      RankSearch search = new RankSearch(QUARTILES, perWindow);
       first[j] = search.firstPlan(usable, expected(rows, usable.length, pilot[j].length));
       searches.add(search);
     }
@@ -169,19 +170,20 @@ public final class Profiler {
     double[] out = new double[measured.length];
     java.util.Arrays.fill(out, Double.NaN);
     List<Integer> cols = new ArrayList<>();
+    for (int j = 0; j < measured.length; j++) {
+      Role role = layout.roles[measured[j]];
+      boolean treated = role == Role.TREAT || role == Role.REQUIRED;
+      boolean mad = settings.column(layout.names[measured[j]]).outliers().method() == OutlierMethod.MAD;
+      if (treated && mad && !Double.isNaN(quartiles.get(j).quantiles()[1])) {
+        cols.add(j);
+      }
+    }
+    int perWindow = settings.quantiles().heldPerWindow(cols.size());
     List<SearchPass.Target> targets = new ArrayList<>();
     List<RankSearch> searches = new ArrayList<>();
     List<OrderWindows> first = new ArrayList<>();
-    int maxHeld = settings.quantiles().maxHeldValues();
-    for (int j = 0; j < measured.length; j++) {
-      String name = layout.names[measured[j]];
-      Role role = layout.roles[measured[j]];
-      boolean treated = role == Role.TREAT || role == Role.REQUIRED;
-      double median = quartiles.get(j).quantiles()[1];
-      if (!treated || settings.column(name).outliers().method() != OutlierMethod.MAD || Double.isNaN(median)) {
-        continue;
-      }
-      SearchPass.Target t = new SearchPass.Target(j, validity[j], false, median);
+    for (int j : cols) {
+      SearchPass.Target t = new SearchPass.Target(j, validity[j], false, quartiles.get(j).quantiles()[1]);
       double[] distances = new double[pilot[j].length];
       int n = 0;
       for (double x : pilot[j]) {
@@ -190,9 +192,8 @@ public final class Profiler {
           distances[n++] = d;
         }
       }
-      RankSearch search = new RankSearch(new double[] {0.5}, maxHeld);
+      RankSearch search = new RankSearch(new double[] {0.5}, perWindow);
       first.add(search.firstPlan(java.util.Arrays.copyOf(distances, n), expected(rows, n, pilot[j].length)));
-      cols.add(j);
       targets.add(t);
       searches.add(search);
     }

@@ -48,7 +48,12 @@ public final class TreatedStatsPass {
       return new TreatedStats(Map.of(), List.of(), null);
     }
     int p = cols.size();
-    int maxHeld = settings.quantiles().maxHeldValues();
+    int searched = 0;
+    for (ColumnProfile c : cols) {
+      OutlierPlan o = outliers.get(c.name());
+      searched += needsQuartiles(settings.column(c.name())) && o.steps(null, null).removes() ? 1 : 0;
+    }
+    int maxHeld = settings.quantiles().heldPerWindow(QUARTILES.length * searched);
     List<Column> projection = new ArrayList<>();
     NumericSteps[] steps = new NumericSteps[p];
     double[][] limits = new double[p][];

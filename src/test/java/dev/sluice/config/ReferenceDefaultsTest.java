@@ -23,7 +23,10 @@ class ReferenceDefaultsTest {
     assertThat(s.sparkMaster()).isEqualTo("local[*]");
     assertThat(s.sparkConf()).isEmpty();
     assertThat(s.input()).isEqualTo(new InputSettings(Optional.empty(), ",", Optional.empty()));
-    assertThat(s.quantiles()).isEqualTo(new QuantileSettings(200_000, 1_000_000));
+    assertThat(s.quantiles()).isEqualTo(new QuantileSettings(200_000, 8_000_000));
+    // The held values are shared by a pass's windows, down to a floor per window.
+    assertThat(s.quantiles().heldPerWindow(30)).isEqualTo(266_666);
+    assertThat(s.quantiles().heldPerWindow(100_000)).isEqualTo(1_000);
     assertThat(s.collinearity()).isEqualTo(new CollinearitySettings(true, 0.9, 10, false, 500, 100_000));
     assertThat(s.defaults()).isEqualTo(documentedDefaults(""));
     assertThat(s.columns()).isEmpty();

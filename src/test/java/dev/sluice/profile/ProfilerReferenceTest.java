@@ -102,6 +102,36 @@ class ProfilerReferenceTest {
   }
 
   @Test
+  void aWideTableSharesTheHeldValuesAndStaysExact(SparkSession spark) {
+    // 40 columns share 4,000 held values: no column can be held whole (each window gets the floor
+    // of 1,000 values for 3,000 rows), so every column goes through the pilot and the windows.
+    // Reference: Commons Math Percentile R_7 on each column (D).
+    SplittableRandom random = new SplittableRandom(29);
+    int p = 40;
+    double[][] rows = new double[3_000][p];
+    for (double[] row : rows) {
+      for (int j = 0; j < p; j++) {
+        row[j] = j % 2 == 0 ? random.nextGaussian() * (j + 1) : Math.floor(random.nextDouble() * 7);
+      }
+    }
+    List<String> names = new java.util.ArrayList<>();
+    for (int j = 0; j < p; j++) {
+      names.add("c" + j);
+    }
+    Dataset<Row> data = Fixtures.doubleTable(spark, names, rows).repartition(3);
+    Sluice.Fit f = Sluice.fit(data, settings("quantiles.max-held-values=4000",
+        "quantiles.pilot-rows=1000", "defaults.outliers.method=none"), List.of());
+    Percentile r7 = new Percentile().withEstimationType(Percentile.EstimationType.R_7);
+    for (int j = 0; j < p; j++) {
+      double[] col = ReferenceData.column(rows, j);
+      ColumnProfile c = f.profile().column("c" + j).orElseThrow();
+      assertThat(c.q1()).as("Q1 of c%d", j).isCloseTo(r7.evaluate(col, 25), within(1e-12 * (j + 1)));
+      assertThat(c.median()).as("median of c%d", j).isCloseTo(r7.evaluate(col, 50), within(1e-12 * (j + 1)));
+      assertThat(c.q3()).as("Q3 of c%d", j).isCloseTo(r7.evaluate(col, 75), within(1e-12 * (j + 1)));
+    }
+  }
+
+  @Test
   void exactPathMatchesCommonsMathR7OnGeneratedData(SparkSession spark) {
     SplittableRandom random = new SplittableRandom(11);
     double[] values = new double[501];
