@@ -7,6 +7,9 @@ import dev.sluice.stats.OrderWindows;
 import dev.sluice.stats.RowSample;
 import dev.sluice.stats.ScaledMoments;
 import org.apache.spark.sql.catalyst.InternalRow;
+import org.apache.spark.sql.types.DataType;
+import org.apache.spark.sql.vectorized.ColumnVector;
+import org.apache.spark.sql.vectorized.ColumnarBatch;
 import org.apache.spark.unsafe.types.UTF8String;
 
 /**
@@ -48,6 +51,8 @@ final class ProfileAccumulator implements RowScan.Accumulator<ProfileAccumulator
   final long[] latest;
   final RowSample sample;
   private transient double[] sampleRow;
+  private transient double[][] batchValues;
+  private transient boolean[][] batchNulls;
 
   /**
    * @param validity per measured column (projection order), its validity bounds
@@ -116,75 +121,149 @@ final class ProfileAccumulator implements RowScan.Accumulator<ProfileAccumulator
   public void add(InternalRow row) {
     rows++;
     for (int j = 0; j < layout.measured; j++) {
-      if (row.isNullAt(j)) {
-        continue;
-      }
-      double x = row.getDouble(j);
-      if (Double.isNaN(x)) {
-        nan[j]++;
-      } else if (Double.isInfinite(x)) {
-        infinite[j]++;
-      } else if (validity[j].invalid(x)) {
-        invalid[j]++;
-      } else {
-        moments[j].add(x);
-        windows[j].add(x);
+      if (!row.isNullAt(j)) {
+        measure(j, row.getDouble(j));
       }
     }
     for (int i : layout.categorical) {
-      countText(row, i);
+      int at = layout.at[i];
+      if (!row.isNullAt(at)) {
+        long hash = row.getLong(layout.hashAt[i]);
+        if (!values[i].increment(hash)) {
+          values[i].insert(hash, row.getUTF8String(at).copy());
+        }
+        countText(i, hash);
+      }
     }
     for (int i : layout.rest) {
-      countOther(row, i);
+      ProfileLayout.Read read = layout.reads[i];
+      int at = layout.at[i];
+      if (read == ProfileLayout.Read.OTHER) {
+        present[i] += row.getBoolean(at) ? 0 : 1;
+      } else if (!row.isNullAt(at)) {
+        countOther(i, switch (read) {
+          case IDENTIFIER, TIMESTAMP, LOCAL_TIMESTAMP -> row.getLong(at);
+          case DATE -> row.getInt(at);
+          default -> 0L;
+        });
+      }
     }
     if (sample != null) {
-      if (sampleRow == null) {
-        sampleRow = new double[sampled.length];
-      }
       for (int s = 0; s < sampled.length; s++) {
         int j = sampled[s];
-        sampleRow[s] = row.isNullAt(j) ? Double.NaN : row.getDouble(j);
+        sampleRow()[s] = row.isNullAt(j) ? Double.NaN : row.getDouble(j);
       }
-      if (RowSample.hash(sampleRow) < sampleCut) {
-        sample.add(sampleRow);
+      offerSample();
+    }
+  }
+
+  /**
+   * Adds a columnar batch of {@link ProfileLayout#raw} (the columns as stored): the same figures as
+   * {@link #add} gives for the same rows, with the casts and hashes done here (see {@link Batches}).
+   */
+  void addBatch(ColumnarBatch batch) {
+    int n = batch.numRows();
+    rows += n;
+    if (batchValues == null || batchValues[0].length < n) {
+      batchValues = new double[Math.max(1, layout.measured)][Math.max(n, 4096)];
+      batchNulls = new boolean[Math.max(1, layout.measured)][Math.max(n, 4096)];
+    }
+    for (int j = 0; j < layout.measured; j++) {
+      int i = layout.measuredAt[j];
+      double[] v = batchValues[j];
+      boolean[] isNull = batchNulls[j];
+      Batches.doubles(batch.column(layout.rawAt[i]), layout.rawTypes[i], n, v, isNull);
+      for (int r = 0; r < n; r++) {
+        if (!isNull[r]) {
+          measure(j, v[r]);
+        }
+      }
+    }
+    for (int i : layout.categorical) {
+      ColumnVector v = batch.column(layout.rawAt[i]);
+      DataType t = layout.rawTypes[i];
+      for (int r = 0; r < n; r++) {
+        if (!v.isNullAt(r)) {
+          long hash = Batches.hash(v, t, r);
+          if (!values[i].increment(hash)) {
+            values[i].insert(hash, Batches.text(v, t, r).copy());
+          }
+          countText(i, hash);
+        }
+      }
+    }
+    for (int i : layout.rest) {
+      ColumnVector v = batch.column(layout.rawAt[i]);
+      ProfileLayout.Read read = layout.reads[i];
+      for (int r = 0; r < n; r++) {
+        if (v.isNullAt(r)) {
+          continue;
+        }
+        switch (read) {
+          case IDENTIFIER -> countOther(i, Batches.hash(v, layout.rawTypes[i], r));
+          case DATE -> countOther(i, v.getInt(r));
+          case TIMESTAMP, LOCAL_TIMESTAMP -> countOther(i, v.getLong(r));
+          default -> present[i]++;
+        }
+      }
+    }
+    if (sample != null) {
+      double[] row = sampleRow();
+      for (int r = 0; r < n; r++) {
+        for (int s = 0; s < sampled.length; s++) {
+          row[s] = batchValues[sampled[s]][r];
+        }
+        offerSample();
       }
     }
   }
 
-  /** A categorical column: its value counted by hash, for the mode and the distinct count. */
-  private void countText(InternalRow row, int i) {
-    int at = layout.at[i];
-    if (row.isNullAt(at)) {
-      return;
+  /** One non-null value of measured column j. */
+  private void measure(int j, double x) {
+    if (Double.isNaN(x)) {
+      nan[j]++;
+    } else if (Double.isInfinite(x)) {
+      infinite[j]++;
+    } else if (validity[j].invalid(x)) {
+      invalid[j]++;
+    } else {
+      moments[j].add(x);
+      windows[j].add(x);
     }
+  }
+
+  /** A non-null categorical value, already counted by hash for the mode. */
+  private void countText(int i, long hash) {
     present[i]++;
-    long hash = row.getLong(layout.hashAt[i]);
-    if (!values[i].increment(hash)) {
-      values[i].insert(hash, row.getUTF8String(at).copy());
-    }
     distinct[i].add(hash);
   }
 
-  /** Identifier, date, timestamp and other columns: presence, distinct hashes, range. */
-  private void countOther(InternalRow row, int i) {
-    ProfileLayout.Read read = layout.reads[i];
-    int at = layout.at[i];
-    if (read == ProfileLayout.Read.OTHER) {
-      if (!row.getBoolean(at)) {
-        present[i]++;
-      }
-      return;
-    }
-    if (row.isNullAt(at)) {
-      return;
-    }
+  /**
+   * A non-null value of any other column: an identifier's hash, a date's day or a timestamp's
+   * microseconds (ignored for measured columns, whose values {@link #measure} takes).
+   */
+  private void countOther(int i, long v) {
     present[i]++;
+    ProfileLayout.Read read = layout.reads[i];
     if (read == ProfileLayout.Read.IDENTIFIER) {
-      distinct[i].add(row.getLong(at));
-    } else if (read != ProfileLayout.Read.MEASURED) {
-      long v = read == ProfileLayout.Read.DATE ? row.getInt(at) : row.getLong(at);
+      distinct[i].add(v);
+    } else if (read == ProfileLayout.Read.DATE || read == ProfileLayout.Read.TIMESTAMP
+        || read == ProfileLayout.Read.LOCAL_TIMESTAMP) {
       earliest[i] = Math.min(earliest[i], v);
       latest[i] = Math.max(latest[i], v);
+    }
+  }
+
+  private double[] sampleRow() {
+    if (sampleRow == null) {
+      sampleRow = new double[sampled.length];
+    }
+    return sampleRow;
+  }
+
+  private void offerSample() {
+    if (RowSample.hash(sampleRow) < sampleCut) {
+      sample.add(sampleRow);
     }
   }
 

@@ -10,6 +10,7 @@ import java.util.ArrayList;
 import java.util.List;
 import java.util.Map;
 import org.apache.spark.sql.Column;
+import org.apache.spark.sql.types.DataType;
 import org.apache.spark.sql.types.DateType;
 import org.apache.spark.sql.types.StructField;
 import org.apache.spark.sql.types.StructType;
@@ -46,6 +47,12 @@ final class ProfileLayout implements Serializable {
   /** Table positions of the categorical columns, and of all others but the measured ones. */
   final int[] categorical;
   final int[] rest;
+  /** Each column's Spark type, and its position in the raw selection (columnar batches). */
+  final DataType[] rawTypes;
+  final int[] rawAt;
+  /** Table position of measured column j. */
+  final int[] measuredAt;
+  private final transient List<Column> raw;
   private final transient List<Column> projection;
 
   private ProfileLayout(String[] names, String[] types, ColumnKind[] kinds, Role[] roles, Read[] reads, int[] at,
@@ -70,6 +77,38 @@ final class ProfileLayout implements Serializable {
     this.categorical = cat.stream().mapToInt(Integer::intValue).toArray();
     this.rest = others.stream().mapToInt(Integer::intValue).toArray();
     this.projection = projection;
+    this.rawTypes = new DataType[names.length];
+    this.rawAt = new int[names.length];
+    List<Column> rawColumns = new ArrayList<>();
+    for (int i = 0; i < names.length; i++) {
+      rawAt[i] = i;
+      rawColumns.add(Names.col(names[i]));
+    }
+    this.raw = List.copyOf(rawColumns);
+    this.measuredAt = measuredColumns();
+  }
+
+  /**
+   * The columns as stored, in table order (so that the scan needs no reordering projection above
+   * it): what a columnar pass reads.
+   */
+  List<Column> raw() {
+    return raw;
+  }
+
+  /** True when every column can be read from columnar batches as the row projection reads it. */
+  boolean columnar() {
+    for (int i = 0; i < names.length; i++) {
+      boolean ok = switch (reads[i]) {
+        case MEASURED -> Batches.numeric(rawTypes[i]);
+        case CATEGORICAL, IDENTIFIER -> Batches.hashable(rawTypes[i]);
+        default -> true;
+      };
+      if (!ok) {
+        return false;
+      }
+    }
+    return true;
   }
 
   static ProfileLayout of(StructType schema, Map<String, Role> roles) {
@@ -123,7 +162,12 @@ final class ProfileLayout implements Serializable {
           break;
       }
     }
-    return new ProfileLayout(names, types, kinds, rs, reads, at, hashAt, measured, List.copyOf(projection));
+    ProfileLayout layout = new ProfileLayout(names, types, kinds, rs, reads, at, hashAt, measured,
+        List.copyOf(projection));
+    for (int i = 0; i < n; i++) {
+      layout.rawTypes[i] = fields[i].dataType();
+    }
+    return layout;
   }
 
   private static Read readOf(ColumnKind kind, Role role, StructField f) {

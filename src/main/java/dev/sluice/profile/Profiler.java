@@ -17,6 +17,7 @@ import java.util.ArrayList;
 import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Map;
+import java.util.Optional;
 import org.apache.spark.api.java.JavaRDD;
 import org.apache.spark.sql.Dataset;
 import org.apache.spark.sql.Row;
@@ -24,6 +25,7 @@ import org.apache.spark.sql.Column;
 import org.apache.spark.sql.functions;
 import org.apache.spark.sql.SparkSession;
 import org.apache.spark.sql.catalyst.InternalRow;
+import org.apache.spark.sql.vectorized.ColumnarBatch;
 
 /**
  * Pass 1: one loop over the table computes every column's counts, moments, exact quartiles,
@@ -48,6 +50,12 @@ public final class Profiler {
 
   /** Profiles {@code data}; {@code roles} gives each column's effective role. */
   public static TableProfile profile(Dataset<Row> data, Settings settings, Map<String, Role> roles) {
+    return profile(data, settings, roles, true);
+  }
+
+  /** {@code columnar}: read columnar batches where the scan offers them (false: always rows). */
+  static TableProfile profile(Dataset<Row> data, Settings settings, Map<String, Role> roles,
+      boolean columnar) {
     long rows = data.count();
     ProfileLayout layout = ProfileLayout.of(data.schema(), roles);
     int[] measured = layout.measuredColumns();
@@ -68,7 +76,11 @@ public final class Profiler {
         Math.max(1_000, VALUE_BUDGET / Math.max(1, sampled.length)));
     ProfileAccumulator proto = new ProfileAccumulator(layout, validity, first, sampled, sampleRows,
         ProfileAccumulator.sampleCut(sampleRows, rows));
-    ProfileAccumulator acc = RowScan.fold(RowScan.rows(data, layout.projection()), proto::emptyCopy);
+    Optional<JavaRDD<ColumnarBatch>> batches = columnar && layout.columnar()
+        ? Batches.of(data.select(layout.raw().toArray(new Column[0]))) : Optional.empty();
+    ProfileAccumulator acc = batches.isPresent()
+        ? RowScan.foldBatches(batches.get(), proto::emptyCopy, ProfileAccumulator::addBatch)
+        : RowScan.fold(RowScan.rows(data, layout.projection()), proto::emptyCopy);
     List<SearchPass.Target> targets = new ArrayList<>();
     for (int j = 0; j < measured.length; j++) {
       searches.get(j).absorb(acc.windows[j]);

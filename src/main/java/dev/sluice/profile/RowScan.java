@@ -9,6 +9,7 @@ import org.apache.spark.sql.Column;
 import org.apache.spark.sql.Dataset;
 import org.apache.spark.sql.Row;
 import org.apache.spark.sql.catalyst.InternalRow;
+import org.apache.spark.sql.vectorized.ColumnarBatch;
 
 /**
  * Runs a plain-Java accumulator over every row of a projection of a table, in one Spark job: each
@@ -62,7 +63,34 @@ public final class RowScan {
         acc.add(it.next());
       }
       return List.of(acc).iterator();
-    }).treeReduce((a, b) -> a.merge(b), rows.getNumPartitions() > TREE_FROM ? 2 : 1);
+    }).treeReduce((a, b) -> a.merge(b), depth(rows));
+  }
+
+  /** Adds one columnar batch to an accumulator; sent to every task. */
+  public interface BatchAdder<A> extends Serializable {
+    void add(A acc, ColumnarBatch batch);
+  }
+
+  /**
+   * One pass over columnar batches (see {@link Batches}): every batch of {@code batches} added to
+   * accumulators made by {@code empty}, merged as {@link #fold} merges them.
+   */
+  public static <A extends Accumulator<A>> A foldBatches(
+      JavaRDD<ColumnarBatch> batches, Empty<A> empty, BatchAdder<A> adder) {
+    if (batches.getNumPartitions() == 0) {
+      return empty.make();
+    }
+    return batches.mapPartitions((Iterator<ColumnarBatch> it) -> {
+      A acc = empty.make();
+      while (it.hasNext()) {
+        adder.add(acc, it.next());
+      }
+      return List.of(acc).iterator();
+    }).treeReduce((a, b) -> a.merge(b), depth(batches));
+  }
+
+  private static int depth(JavaRDD<?> rows) {
+    return rows.getNumPartitions() > TREE_FROM ? 2 : 1;
   }
 
   /**

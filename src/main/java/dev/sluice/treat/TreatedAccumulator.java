@@ -7,7 +7,10 @@ import dev.sluice.stats.Frequencies;
 import dev.sluice.stats.NumericSteps;
 import dev.sluice.stats.OrderWindows;
 import dev.sluice.stats.ScaledMoments;
+import dev.sluice.profile.Batches;
 import org.apache.spark.sql.catalyst.InternalRow;
+import org.apache.spark.sql.types.DataType;
+import org.apache.spark.sql.vectorized.ColumnarBatch;
 
 /**
  * Pass 2 over one partition. Column k of the projection is treated column k as DOUBLE; each value
@@ -33,6 +36,9 @@ final class TreatedAccumulator implements RowScan.Accumulator<TreatedAccumulator
   final Frequencies<Double>[] modes;
   final CoMoments comoments;
   private transient double[] corrRow;
+  private transient double[][] treated;
+  private transient double[] raw;
+  private transient boolean[] nulls;
 
   /**
    * @param limits per column: inner lower, inner upper, outer lower, outer upper, action lower,
@@ -67,43 +73,85 @@ final class TreatedAccumulator implements RowScan.Accumulator<TreatedAccumulator
 
   @Override
   public void add(InternalRow row) {
-    if (comoments != null && corrRow == null) {
-      corrRow = new double[comoments.dimension()];
-    }
+    double[] corr = corrRow();
     for (int k = 0; k < steps.length; k++) {
-      double t = Double.NaN;
-      if (!row.isNullAt(k)) {
-        double v = steps[k].valid(row.getDouble(k));
-        if (!Double.isNaN(v)) {
-          double[] l = limits[k];
-          long[] b = beyond[k];
-          for (int i = 0; i < LIMITS; i += 2) {
-            if (v < l[i]) {
-              b[i]++;
-            }
-            if (v > l[i + 1]) {
-              b[i + 1]++;
-            }
-          }
-          t = steps[k].afterOutliers(v);
-        }
-      }
-      if (!Double.isNaN(t)) {
-        moments[k].add(t);
-        if (windows[k] != null) {
-          windows[k].add(t);
-        }
-        if (modes[k] != null) {
-          modes[k].add(t + 0.0);
-        }
-      }
-      if (corrIndex[k] >= 0 && corrRow != null) {
-        corrRow[corrIndex[k]] = t;
+      double t = row.isNullAt(k) ? Double.NaN : treat(k, row.getDouble(k));
+      if (corrIndex[k] >= 0 && corr != null) {
+        corr[corrIndex[k]] = t;
       }
     }
     if (comoments != null) {
-      comoments.add(corrRow);
+      comoments.add(corr);
     }
+  }
+
+  /**
+   * Adds a columnar batch of the treated columns as stored, in the same order: the same figures as
+   * {@link #add} gives for the same rows (the casts are Spark's, see {@code profile.Batches}).
+   */
+  void addBatch(ColumnarBatch batch, DataType[] types) {
+    int n = batch.numRows();
+    int p = steps.length;
+    if (treated == null || treated[0].length < n) {
+      treated = new double[Math.max(1, p)][Math.max(n, 4096)];
+      raw = new double[Math.max(n, 4096)];
+      nulls = new boolean[Math.max(n, 4096)];
+    }
+    for (int k = 0; k < p; k++) {
+      Batches.doubles(batch.column(k), types[k], n, raw, nulls);
+      double[] t = treated[k];
+      for (int r = 0; r < n; r++) {
+        t[r] = nulls[r] ? Double.NaN : treat(k, raw[r]);
+      }
+    }
+    if (comoments == null) {
+      return;
+    }
+    double[] corr = corrRow();
+    for (int r = 0; r < n; r++) {
+      for (int k = 0; k < p; k++) {
+        if (corrIndex[k] >= 0) {
+          corr[corrIndex[k]] = treated[k][r];
+        }
+      }
+      comoments.add(corr);
+    }
+  }
+
+  /** Steps 2 and 3 on one non-null value of column k, counted; the treated value or NaN. */
+  private double treat(int k, double x) {
+    double v = steps[k].valid(x);
+    if (Double.isNaN(v)) {
+      return v;
+    }
+    double[] l = limits[k];
+    long[] b = beyond[k];
+    for (int i = 0; i < LIMITS; i += 2) {
+      if (v < l[i]) {
+        b[i]++;
+      }
+      if (v > l[i + 1]) {
+        b[i + 1]++;
+      }
+    }
+    double t = steps[k].afterOutliers(v);
+    if (!Double.isNaN(t)) {
+      moments[k].add(t);
+      if (windows[k] != null) {
+        windows[k].add(t);
+      }
+      if (modes[k] != null) {
+        modes[k].add(t + 0.0);
+      }
+    }
+    return t;
+  }
+
+  private double[] corrRow() {
+    if (comoments != null && corrRow == null) {
+      corrRow = new double[comoments.dimension()];
+    }
+    return corrRow;
   }
 
   @Override

@@ -6,6 +6,8 @@ import dev.sluice.config.ScalingMethod;
 import dev.sluice.config.Settings;
 import dev.sluice.plan.OutlierPlan;
 import dev.sluice.plan.TreatedStats;
+import dev.sluice.io.Names;
+import dev.sluice.profile.Batches;
 import dev.sluice.profile.ColumnProfile;
 import dev.sluice.profile.ValueExprs;
 import dev.sluice.profile.RowScan;
@@ -20,11 +22,14 @@ import java.util.Arrays;
 import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Map;
+import java.util.Optional;
 import org.apache.spark.api.java.JavaRDD;
 import org.apache.spark.sql.Column;
 import org.apache.spark.sql.Dataset;
 import org.apache.spark.sql.Row;
 import org.apache.spark.sql.catalyst.InternalRow;
+import org.apache.spark.sql.types.DataType;
+import org.apache.spark.sql.vectorized.ColumnarBatch;
 
 /**
  * Pass 2: one loop over the treated numeric columns, after the validity and outlier steps, gives
@@ -101,7 +106,7 @@ public final class TreatedStatsPass {
     }
     JavaRDD<InternalRow> rows = RowScan.rows(data, projection);
     TreatedAccumulator proto = new TreatedAccumulator(steps, limits, first, mode, corrIndex, comoments);
-    TreatedAccumulator acc = RowScan.fold(rows, proto::emptyCopy);
+    TreatedAccumulator acc = fold(data, cols, rows, proto);
     for (int k = 0; k < p; k++) {
       if (first[k] != null) {
         searches.get(k).absorb(acc.windows[k]);
@@ -137,6 +142,26 @@ public final class TreatedStatsPass {
       return new double[] {Double.NaN, Double.NaN, Double.NaN};
     }
     return own != null ? own.quantiles() : profile.quartiles().get(c.name()).quantiles(steps::afterOutliers);
+  }
+
+  /**
+   * Pass 2 over columnar batches of the treated columns as stored, when the scan offers them and
+   * Spark can cast every one of them to DOUBLE there; over rows of the projection otherwise.
+   */
+  private static TreatedAccumulator fold(Dataset<Row> data, List<ColumnProfile> cols,
+      JavaRDD<InternalRow> rows, TreatedAccumulator proto) {
+    DataType[] types = new DataType[cols.size()];
+    Column[] raw = new Column[cols.size()];
+    for (int k = 0; k < types.length; k++) {
+      types[k] = data.schema().apply(cols.get(k).name()).dataType();
+      raw[k] = Names.col(cols.get(k).name());
+    }
+    boolean numeric = java.util.Arrays.stream(types).allMatch(Batches::numeric);
+    Optional<JavaRDD<ColumnarBatch>> batches = numeric ? Batches.of(data.select(raw)) : Optional.empty();
+    if (batches.isEmpty()) {
+      return RowScan.fold(rows, proto::emptyCopy);
+    }
+    return RowScan.foldBatches(batches.get(), proto::emptyCopy, (acc, b) -> acc.addBatch(b, types));
   }
 
   private static double low(Double limit) {

@@ -1,0 +1,145 @@
+package dev.sluice.profile;
+
+import java.util.Optional;
+import org.apache.spark.api.java.JavaRDD;
+import org.apache.spark.sql.Dataset;
+import org.apache.spark.sql.Row;
+import org.apache.spark.sql.catalyst.expressions.XXH64;
+import org.apache.spark.sql.execution.ColumnarToRowExec;
+import org.apache.spark.sql.execution.InputAdapter;
+import org.apache.spark.sql.execution.SparkPlan;
+import org.apache.spark.sql.execution.WholeStageCodegenExec;
+import org.apache.spark.sql.types.BooleanType;
+import org.apache.spark.sql.types.ByteType;
+import org.apache.spark.sql.types.DataType;
+import org.apache.spark.sql.types.DateType;
+import org.apache.spark.sql.types.DecimalType;
+import org.apache.spark.sql.types.DoubleType;
+import org.apache.spark.sql.types.FloatType;
+import org.apache.spark.sql.types.IntegerType;
+import org.apache.spark.sql.types.LongType;
+import org.apache.spark.sql.types.ShortType;
+import org.apache.spark.sql.types.StringType;
+import org.apache.spark.sql.types.TimestampNTZType;
+import org.apache.spark.sql.types.TimestampType;
+import org.apache.spark.sql.vectorized.ColumnVector;
+import org.apache.spark.sql.vectorized.ColumnarBatch;
+import org.apache.spark.unsafe.types.UTF8String;
+
+/**
+ * The table as Spark's columnar batches, when its scan can hand them over directly (Parquet and
+ * ORC with Spark's vectorized readers), and the few conversions the loops need from them.
+ *
+ * <p>A pass over batches skips the conversion of every row into Spark's binary row format and the
+ * per-row projection, which is most of what a row loop costs beyond reading. The conversions here
+ * give exactly what the row path's Catalyst projection gives: DOUBLE as Spark casts it, text as
+ * Spark casts it to a string, and Spark's own xxhash64 (seed 42) of each value, so that both paths
+ * produce the same profile, bit for bit (a test checks this).
+ */
+public final class Batches {
+  /** Spark's xxhash64 seed. */
+  static final long SEED = 42L;
+
+  private Batches() {}
+
+  /**
+   * The batches of {@code raw}, when its physical plan is a columnar scan under nothing but the
+   * row conversion Spark adds; empty for anything else (a filter, a row-based source).
+   */
+  public static Optional<JavaRDD<ColumnarBatch>> of(Dataset<Row> raw) {
+    SparkPlan plan = raw.queryExecution().executedPlan();
+    while (plan instanceof WholeStageCodegenExec || plan instanceof ColumnarToRowExec
+        || plan instanceof InputAdapter) {
+      if (plan.children().size() != 1) {
+        return Optional.empty();
+      }
+      plan = plan.children().head();
+    }
+    if (!plan.supportsColumnar() || plan.output().size() != raw.schema().size()) {
+      return Optional.empty();
+    }
+    return Optional.of(plan.executeColumnar().toJavaRDD());
+  }
+
+  /** A type whose values can be read as DOUBLE from a vector. */
+  public static boolean numeric(DataType t) {
+    return t instanceof ByteType || t instanceof ShortType || t instanceof IntegerType
+        || t instanceof LongType || t instanceof FloatType || t instanceof DoubleType
+        || t instanceof DecimalType;
+  }
+
+  /** A type whose values can be hashed and, for text and booleans, read as text. */
+  static boolean hashable(DataType t) {
+    return t instanceof StringType || t instanceof BooleanType || t instanceof ByteType
+        || t instanceof ShortType || t instanceof IntegerType || t instanceof LongType
+        || t instanceof DateType || t instanceof TimestampType || t instanceof TimestampNTZType;
+  }
+
+  /**
+   * The first n values of a numeric vector as DOUBLE, cast as Spark casts them; a null is
+   * {@code nulls[i] = true} (its value slot is NaN).
+   */
+  public static void doubles(ColumnVector v, DataType t, int n, double[] out, boolean[] nulls) {
+    boolean anyNull = v.hasNull();
+    for (int i = 0; i < n; i++) {
+      boolean isNull = anyNull && v.isNullAt(i);
+      nulls[i] = isNull;
+      out[i] = isNull ? Double.NaN : valueAt(v, t, i);
+    }
+  }
+
+  private static double valueAt(ColumnVector v, DataType t, int i) {
+    if (t instanceof DoubleType) {
+      return v.getDouble(i);
+    }
+    if (t instanceof IntegerType) {
+      return v.getInt(i);
+    }
+    if (t instanceof LongType) {
+      return v.getLong(i);
+    }
+    if (t instanceof FloatType) {
+      return v.getFloat(i);
+    }
+    if (t instanceof ShortType) {
+      return v.getShort(i);
+    }
+    if (t instanceof ByteType) {
+      return v.getByte(i);
+    }
+    DecimalType d = (DecimalType) t;
+    // Spark's cast of a decimal to DOUBLE is Decimal.toDouble.
+    return v.getDecimal(i, d.precision(), d.scale()).toDouble();
+  }
+
+  /** Spark's xxhash64 of a non-null value of a {@link #hashable} type. */
+  static long hash(ColumnVector v, DataType t, int i) {
+    if (t instanceof StringType) {
+      return XXH64.hashUTF8String(v.getUTF8String(i), SEED);
+    }
+    if (t instanceof BooleanType) {
+      return XXH64.hashInt(v.getBoolean(i) ? 1 : 0, SEED);
+    }
+    if (t instanceof LongType || t instanceof TimestampType || t instanceof TimestampNTZType) {
+      return XXH64.hashLong(v.getLong(i), SEED);
+    }
+    if (t instanceof ShortType) {
+      return XXH64.hashInt(v.getShort(i), SEED);
+    }
+    if (t instanceof ByteType) {
+      return XXH64.hashInt(v.getByte(i), SEED);
+    }
+    return XXH64.hashInt(v.getInt(i), SEED); // int, date
+  }
+
+  private static final UTF8String TRUE = UTF8String.fromString("true");
+  private static final UTF8String FALSE = UTF8String.fromString("false");
+
+  /** A non-null text or boolean value as Spark casts it to a string (a view: copy to keep it). */
+  static UTF8String text(ColumnVector v, DataType t, int i) {
+    if (t instanceof BooleanType) {
+      return v.getBoolean(i) ? TRUE : FALSE;
+    }
+    return v.getUTF8String(i);
+  }
+}

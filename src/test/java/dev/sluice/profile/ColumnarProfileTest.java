@@ -1,0 +1,90 @@
+package dev.sluice.profile;
+
+import static org.assertj.core.api.Assertions.assertThat;
+import static org.assertj.core.api.Assertions.within;
+
+import dev.sluice.config.Role;
+import dev.sluice.config.Settings;
+import dev.sluice.testing.Fixtures;
+import dev.sluice.testing.SharedSpark;
+import java.nio.file.Path;
+import java.util.HashMap;
+import java.util.Map;
+import org.apache.spark.sql.Dataset;
+import org.apache.spark.sql.Row;
+import org.apache.spark.sql.SparkSession;
+import org.junit.jupiter.api.Test;
+import org.junit.jupiter.api.extension.ExtendWith;
+import org.junit.jupiter.api.io.TempDir;
+
+/**
+ * Pass 1 reads Parquet as columnar batches and casts and hashes values itself; it must give
+ * exactly the profile the row path gives through Spark's own casts and xxhash64, for every type
+ * it reads (reference: the row path, Catalyst's casts and hash).
+ */
+@ExtendWith(SharedSpark.class)
+class ColumnarProfileTest {
+  @TempDir Path tmp;
+
+  @Test
+  void columnarAndRowPathsGiveTheSameProfile(SparkSession spark) {
+    String dir = tmp.resolve("t").toString();
+    spark.sql("SELECT id, CAST(id % 7 AS TINYINT) AS b, CAST(id % 300 AS SMALLINT) AS s,"
+        + " CAST(id * 3 AS INT) AS i, id * 1000003 AS l, CAST(id / 7.0 AS FLOAT) AS f,"
+        + " CAST(id / 3.0 AS DOUBLE) AS d, CAST(id / 9 AS DECIMAL(38,18)) AS dec,"
+        + " CASE WHEN id % 11 = 0 THEN NULL ELSE CAST(id % 13 AS DOUBLE) END AS gaps,"
+        + " CASE WHEN id % 5 = 0 THEN 'Ünïcode-' || CAST(id % 17 AS STRING) ELSE 'lot-' || CAST(id % 41 AS STRING) END AS label,"
+        + " id % 3 = 0 AS flag, DATE'2026-10-01' + CAST(id % 28 AS INT) AS day,"
+        + " TIMESTAMP'2026-10-01 08:00:00' + make_interval(0, 0, 0, 0, 0, CAST(id % 600 AS INT), 0) AS at,"
+        + " 'PL-' || CAST(id AS STRING) AS pallet, named_struct('a', id) AS nested,"
+        + " CASE WHEN id % 4 = 0 THEN CAST('NaN' AS DOUBLE) WHEN id % 9 = 0 THEN CAST('Infinity' AS DOUBLE) ELSE id END AS odd"
+        + " FROM range(5000)").repartition(3).write().parquet(dir);
+    Dataset<Row> data = spark.read().parquet(dir);
+    Settings settings = Fixtures.settings("columns.pallet.role=identifier", "columns.d.valid-max=1000");
+    Map<String, Role> roles = new HashMap<>();
+    for (String c : data.columns()) {
+      roles.put(c, c.equals("pallet") ? Role.IDENTIFIER : Role.TREAT);
+    }
+    ProfileLayout layout = ProfileLayout.of(data.schema(), roles);
+    assertThat(layout.columnar()).isTrue();
+    assertThat(Batches.of(data.select(layout.raw().toArray(new org.apache.spark.sql.Column[0]))))
+        .as("Parquet offers columnar batches").isPresent();
+    TableProfile columnar = Profiler.profile(data, settings, roles, true);
+    TableProfile rows = Profiler.profile(data, settings, roles, false);
+    // Counts, quartiles, distinct values and texts are exact: equal. Means and standard deviations
+    // are sums whose order depends on which task finishes first: equal to rounding.
+    assertThat(columnar.columns().stream().map(ColumnarProfileTest::withoutMoments).toList())
+        .isEqualTo(rows.columns().stream().map(ColumnarProfileTest::withoutMoments).toList());
+    for (int i = 0; i < rows.columns().size(); i++) {
+      ColumnProfile a = columnar.columns().get(i);
+      ColumnProfile b = rows.columns().get(i);
+      if (!Double.isNaN(b.mean())) {
+        assertThat(a.mean()).as(a.name()).isCloseTo(b.mean(), within(1e-12 * Math.abs(b.mean()) + 1e-300));
+        assertThat(a.stddev()).as(a.name()).isCloseTo(b.stddev(), within(1e-12 * b.stddev() + 1e-300));
+      }
+    }
+    // Arrays.deepEquals compares doubles by their bits: NaN (a missing value) equals NaN.
+    assertThat(java.util.Arrays.deepEquals(columnar.sample().rows(), rows.sample().rows())).isTrue();
+    assertThat(columnar.sample().weights()).isEqualTo(rows.sample().weights());
+    // The checks above compare something: every kind of column was profiled.
+    assertThat(columnar.column("label").orElseThrow().topValue()).isNotNull();
+    assertThat(columnar.column("pallet").orElseThrow().distinct()).isEqualTo(5000);
+    assertThat(columnar.column("odd").orElseThrow().nan()).isPositive();
+    assertThat(columnar.column("day").orElseThrow().maxText()).isEqualTo("2026-10-28");
+  }
+
+  private static ColumnProfile withoutMoments(ColumnProfile c) {
+    return new ColumnProfile(c.name(), c.type(), c.kind(), c.role(), c.rows(), c.nulls(), c.nan(),
+        c.infinite(), c.invalid(), c.usable(), c.min(), c.max(), Double.NaN, Double.NaN, c.q1(),
+        c.median(), c.q3(), c.quantileMethod(), c.rankError(), c.mad(), c.distinct(), c.topValue(),
+        c.topCount(), c.minText(), c.maxText());
+  }
+
+  @Test
+  void aFilteredTableIsReadAsRows(SparkSession spark) {
+    String dir = tmp.resolve("f").toString();
+    spark.range(100).selectExpr("CAST(id AS DOUBLE) AS x").write().parquet(dir);
+    Dataset<Row> filtered = spark.read().parquet(dir).filter("x > 10");
+    assertThat(Batches.of(filtered.select("x"))).as("a filter above the scan").isEmpty();
+  }
+}
