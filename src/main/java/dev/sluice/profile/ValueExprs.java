@@ -31,9 +31,17 @@ public final class ValueExprs {
     return x.equalTo(lit(Double.POSITIVE_INFINITY)).or(x.equalTo(lit(Double.NEGATIVE_INFINITY)));
   }
 
-  /** True where x is neither null, NaN nor infinite. */
+  /**
+   * True where x is neither null, NaN nor infinite: two comparisons, because Spark orders NaN
+   * above every other double, so {@code NaN <= MAX_VALUE} is false, as is an infinity's test.
+   */
   public static Column isFinite(Column x) {
-    return x.isNotNull().and(functions.not(isNan(x))).and(functions.not(isInfinite(x)));
+    return within(x, OptionalDouble.empty(), OptionalDouble.empty());
+  }
+
+  /** True where x is finite and within the bounds (null where x is null). */
+  public static Column within(Column x, OptionalDouble min, OptionalDouble max) {
+    return x.geq(lit(min.orElse(-Double.MAX_VALUE))).and(x.leq(lit(max.orElse(Double.MAX_VALUE))));
   }
 
   /** True where a finite x lies outside the validity bounds; false where there are none. */
@@ -50,6 +58,6 @@ public final class ValueExprs {
 
   /** x where it is finite and within bounds, else null: the values statistics are taken from. */
   public static Column usable(Column x, OptionalDouble min, OptionalDouble max) {
-    return when(isFinite(x).and(functions.not(outsideBounds(x, min, max))), x);
+    return when(within(x, min, max), x);
   }
 }

@@ -10,6 +10,7 @@ import dev.sluice.plan.OutlierPlan;
 import dev.sluice.profile.ValueExprs;
 import java.util.OptionalDouble;
 import org.apache.spark.sql.Column;
+import org.apache.spark.sql.functions;
 
 /**
  * The Catalyst expressions that apply a plan to one column, step by step in the order of
@@ -45,23 +46,32 @@ public final class Treatments {
    * quarantine); flag and keep leave it as it is.
    */
   public static Column afterOutliers(String name, Double validMin, Double validMax, OutlierPlan o) {
-    Column v = valid(name, validMin, validMax);
+    Column x = ValueExprs.asDouble(name);
+    Column valid = ValueExprs.within(x, opt(validMin), opt(validMax));
     switch (o.action()) {
       case "cap":
-        Column capped = v;
-        if (o.upper() != null) {
-          capped = when(v.gt(lit(o.upper())), lit(o.upper())).otherwise(capped);
-        }
+        // x is finite where the condition holds, so greatest and least never meet a null or NaN.
+        Column capped = x;
         if (o.lower() != null) {
-          capped = when(v.lt(lit(o.lower())), lit(o.lower())).otherwise(capped);
+          capped = functions.greatest(capped, lit(o.lower()));
         }
-        return capped;
+        if (o.upper() != null) {
+          capped = functions.least(capped, lit(o.upper()));
+        }
+        return when(valid, capped);
       case "set-missing":
       case "quarantine":
         // A quarantined row leaves the treated table: its value counts as missing here.
-        return when(beyond(v, o), lit(null).cast("double")).otherwise(v);
+        Column kept = valid;
+        if (o.lower() != null) {
+          kept = kept.and(x.geq(lit(o.lower())));
+        }
+        if (o.upper() != null) {
+          kept = kept.and(x.leq(lit(o.upper())));
+        }
+        return when(kept, x);
       default:
-        return v;
+        return when(valid, x);
     }
   }
 

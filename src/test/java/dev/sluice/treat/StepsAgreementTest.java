@@ -46,6 +46,22 @@ class StepsAgreementTest {
 
   @ParameterizedTest
   @ValueSource(strings = {"cap", "set-missing"})
+  void aLimitAtZeroTreatsMinusZeroAsZero(String action, SparkSession spark) {
+    // -0.0 equals the limit 0.0: it is not beyond it, and keeps its own bits in both steps.
+    OutlierPlan o = new OutlierPlan("iqr", "both", action, 0.0, 7.0, 0.0, 7.0, -2.0, 10.0, "test");
+    Dataset<Row> data = Fixtures.doubles(spark, "x", EDGES);
+    List<Row> rows = data.select(Treatments.afterOutliers("x", null, null, o)).collectAsList();
+    NumericSteps steps = o.steps(null, null);
+    for (int i = 0; i < EDGES.length; i++) {
+      double java = steps.treated(EDGES[i] == null ? Double.NaN : EDGES[i]);
+      Object spark1 = rows.get(i).get(0);
+      Double got = spark1 == null ? Double.valueOf(Double.NaN) : (Double) spark1;
+      assertThat(got).as("input %s", EDGES[i]).isEqualTo(Double.valueOf(java));
+    }
+  }
+
+  @ParameterizedTest
+  @ValueSource(strings = {"cap", "set-missing"})
   void noLimitsOrBoundsLeaveFiniteValuesAlone(String action, SparkSession spark) {
     OutlierPlan o = new OutlierPlan("iqr", "both", action, null, null, null, null, null, null, "test");
     Dataset<Row> data = Fixtures.doubles(spark, "x", EDGES);
