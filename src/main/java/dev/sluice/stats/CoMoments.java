@@ -40,7 +40,16 @@ import java.util.Arrays;
  * one row give NaN covariances. Merging requires the same centres and scales and adds the sums.
  */
 public final class CoMoments implements Serializable {
-  private static final long serialVersionUID = 3L;
+  private static final long serialVersionUID = 4L;
+  /** An entry that holds its value. */
+  public static final byte VALUE = 0;
+  /** Constant states: the entry's value is a constant per column and state, given only when the
+   * sums are read. MISSING takes the fill value; BELOW and ABOVE the lower and upper outlier limit. */
+  public static final byte MISSING = 1;
+  public static final byte BELOW = 2;
+  public static final byte ABOVE = 3;
+  /** Number of constant states. */
+  public static final int STATES = 3;
 
   private final int p;
   private final double[] centres;
@@ -54,18 +63,24 @@ public final class CoMoments implements Serializable {
   /** Over every row: sum u_j u_k, upper triangle (j <= k) of a p x p array. */
   private final double[] gram;
   /**
-   * Cell (k, j) = [k * p + j], over the rows where column k is missing: the sums of u_j and u_j^2
-   * and the count of present j.
+   * Per constant state s (index s - 1), cell (k, j) = [k * p + j], over the rows where column k is
+   * in state s: the sums of u_j and u_j^2 and the count of rows where j holds a value.
    */
-  private final double[] missU;
-  private final double[] missU2;
-  private final double[] missPresent;
+  private final double[][] stateU;
+  private final double[][] stateU2;
+  private final double[][] statePresent;
+  /**
+   * Per pair of constant states (s, t) (index (s - 1) * STATES + t - 1), cell (k, j): the rows where
+   * column k is in state s and column j in state t (on the diagonal: the rows where k is in s).
+   */
+  private final double[][] stateCount;
   /**
    * Rows waiting for the product triangle, column-major (block[j][r]), added a block at a time.
    * Flushed before the sums are read, merged or serialized.
    */
   private transient double[][] block;
   private transient double[] u;
+  private transient byte[] missingStates;
   private transient int pending;
   private static final int BLOCK = 64;
 
@@ -107,9 +122,10 @@ public final class CoMoments implements Serializable {
     this.sumU2 = new double[p];
     this.present = new double[p];
     this.gram = new double[p * p];
-    this.missU = new double[p * p];
-    this.missU2 = new double[p * p];
-    this.missPresent = new double[p * p];
+    this.stateU = new double[STATES][p * p];
+    this.stateU2 = new double[STATES][p * p];
+    this.statePresent = new double[STATES][p * p];
+    this.stateCount = new double[STATES * STATES][p * p];
   }
 
   /** An empty accumulator with the same centres and scales (each task of a pass starts from one). */
@@ -131,44 +147,88 @@ public final class CoMoments implements Serializable {
       throw new IllegalArgumentException(
           "Cannot add a row of " + values.length + " values to " + p + " columns");
     }
+    if (missingStates == null) {
+      missingStates = new byte[p];
+    }
+    for (int j = 0; j < p; j++) {
+      missingStates[j] = Double.isNaN(values[j]) ? MISSING : VALUE;
+    }
+    add(values, missingStates);
+  }
+
+  /**
+   * Adds one row whose entries are values ({@code states[j] == VALUE}, taken from {@code values})
+   * or in a constant state (MISSING, BELOW, ABOVE; the value is ignored). The arrays are not
+   * retained.
+   *
+   * @throws IllegalArgumentException for arrays of the wrong length, an unknown state, or an
+   *     infinite or NaN value held as a value
+   */
+  public void add(double[] values, byte[] states) {
+    if (values.length != p || states.length != p) {
+      throw new IllegalArgumentException(
+          "Cannot add a row of " + values.length + " values to " + p + " columns");
+    }
+    for (int j = 0; j < p; j++) {
+      // Checked before anything is added, so that a refused row leaves no trace.
+      if (states[j] == VALUE && !Double.isFinite(values[j])) {
+        throw new IllegalArgumentException("Cannot add the value " + values[j] + " in column " + j);
+      }
+      if (states[j] < 0 || states[j] > STATES) {
+        throw new IllegalArgumentException("Cannot add an entry in state " + states[j] + " in column " + j);
+      }
+    }
     if (block == null) {
       block = new double[p][BLOCK];
       u = new double[p];
     }
-    int missing = 0;
+    int constants = 0;
     for (int j = 0; j < p; j++) {
-      double x = values[j];
-      if (Double.isInfinite(x)) {
-        throw new IllegalArgumentException("Cannot add the infinite value " + x + " in column " + j);
-      }
-      double d = Double.isNaN(x) ? 0.0 : x * scales[j] - centres[j] * scales[j];
-      u[j] = d;
-      block[j][pending] = d;
-      if (Double.isNaN(x)) {
-        missing++;
-      } else {
+      byte state = states[j];
+      double d = 0.0;
+      if (state == VALUE) {
+        double x = values[j];
+        d = x * scales[j] - centres[j] * scales[j];
         sumU[j] += d;
         sumU2[j] += d * d;
         present[j] += 1.0;
+      } else {
+        constants++;
       }
+      u[j] = d;
+      block[j][pending] = d;
     }
-    if (missing > 0) {
-      for (int k = 0; k < p; k++) {
-        if (Double.isNaN(values[k])) {
-          int base = k * p;
-          for (int j = 0; j < p; j++) {
-            double d = u[j];
-            missU[base + j] += d;
-            missU2[base + j] += d * d;
-            missPresent[base + j] += Double.isNaN(values[j]) ? 0.0 : 1.0;
-          }
-        }
-      }
+    if (constants > 0) {
+      addConstants(states);
     }
     rows++;
     pending++;
     if (pending == BLOCK) {
       flush();
+    }
+  }
+
+  /** The sums over the rows where a column is in a constant state, for this row's such entries. */
+  private void addConstants(byte[] states) {
+    for (int k = 0; k < p; k++) {
+      int s = states[k];
+      if (s == VALUE) {
+        continue;
+      }
+      int base = k * p;
+      double[] su = stateU[s - 1];
+      double[] su2 = stateU2[s - 1];
+      double[] sp = statePresent[s - 1];
+      for (int j = 0; j < p; j++) {
+        double d = u[j];
+        su[base + j] += d;
+        su2[base + j] += d * d;
+        if (states[j] == VALUE) {
+          sp[base + j] += 1.0;
+        } else {
+          stateCount[(s - 1) * STATES + states[j] - 1][base + j] += 1.0;
+        }
+      }
     }
   }
 
@@ -223,9 +283,14 @@ public final class CoMoments implements Serializable {
     addInto(sumU2, other.sumU2);
     addInto(present, other.present);
     addInto(gram, other.gram);
-    addInto(missU, other.missU);
-    addInto(missU2, other.missU2);
-    addInto(missPresent, other.missPresent);
+    for (int i = 0; i < STATES; i++) {
+      addInto(stateU[i], other.stateU[i]);
+      addInto(stateU2[i], other.stateU2[i]);
+      addInto(statePresent[i], other.statePresent[i]);
+    }
+    for (int i = 0; i < STATES * STATES; i++) {
+      addInto(stateCount[i], other.stateCount[i]);
+    }
     return this;
   }
 
@@ -238,17 +303,28 @@ public final class CoMoments implements Serializable {
    * replaced by {@code imputed[j]}. A NaN imputation value means the column is not imputed: its
    * covariances are then taken over the rows where the pair is present (pairwise complete), the
    * other column of the pair counting as present wherever it is imputed. Fewer than two such rows
-   * give NaN.
+   * give NaN. Rows added with BELOW or ABOVE entries need {@link #covariance(double[][])}.
    *
    * @throws IllegalArgumentException for a vector of the wrong length or an infinite value
    */
   public double[][] covariance(double[] imputed) {
-    checkImputed(imputed);
+    return covariance(missingOnly(imputed));
+  }
+
+  /**
+   * The sample covariance matrix with each entry of column j in constant state s replaced by
+   * {@code constants[j][s - 1]} (MISSING, BELOW, ABOVE). A NaN constant leaves the rows where the
+   * column is in that state out of that column's pairs, as a NaN imputation value does.
+   *
+   * @throws IllegalArgumentException for arrays of the wrong shape or an infinite constant
+   */
+  public double[][] covariance(double[][] constants) {
+    double[][] c = centred(constants);
     flush();
     double[][] result = new double[p][p];
     for (int j = 0; j < p; j++) {
       for (int k = j; k < p; k++) {
-        result[j][k] = pair(j, k, imputed).covariance() / scales[j] / scales[k];
+        result[j][k] = pair(j, k, c).covariance() / scales[j] / scales[k];
         result[k][j] = result[j][k];
       }
     }
@@ -261,63 +337,116 @@ public final class CoMoments implements Serializable {
    * complete case each pair's variances are taken over the same rows as its covariance.
    */
   public double[][] correlation(double[] imputed) {
-    checkImputed(imputed);
+    return correlation(missingOnly(imputed));
+  }
+
+  /** Pearson correlation with constant states, as {@link #covariance(double[][])} takes them. */
+  public double[][] correlation(double[][] constants) {
+    double[][] c = centred(constants);
     flush();
     double[][] result = new double[p][p];
     for (int j = 0; j < p; j++) {
-      result[j][j] = Double.isNaN(pair(j, j, imputed).correlation()) ? Double.NaN : 1.0;
+      result[j][j] = Double.isNaN(pair(j, j, c).correlation()) ? Double.NaN : 1.0;
       for (int k = j + 1; k < p; k++) {
-        result[j][k] = pair(j, k, imputed).correlation();
+        result[j][k] = pair(j, k, c).correlation();
         result[k][j] = result[j][k];
       }
     }
     return result;
   }
 
-  /** Sums over the rows that count for the pair (j, k) under this imputation. */
-  private Sums pair(int j, int k, double[] imputed) {
+  /** Constants for rows that only hold values and missing entries. */
+  private double[][] missingOnly(double[] imputed) {
+    if (imputed.length != p) {
+      throw new IllegalArgumentException(
+          "Cannot impute " + imputed.length + " values into " + p + " columns");
+    }
+    double[][] c = new double[p][STATES];
+    for (int j = 0; j < p; j++) {
+      java.util.Arrays.fill(c[j], Double.NaN);
+      c[j][MISSING - 1] = imputed[j];
+    }
+    return c;
+  }
+
+  /** The constants as centred, scaled deviations, checked. */
+  private double[][] centred(double[][] constants) {
+    if (constants.length != p) {
+      throw new IllegalArgumentException(
+          "Cannot impute constants for " + constants.length + " columns into " + p);
+    }
+    double[][] c = new double[p][STATES];
+    for (int j = 0; j < p; j++) {
+      if (constants[j].length != STATES) {
+        throw new IllegalArgumentException("Expected " + STATES + " constants for column " + j);
+      }
+      for (int s = 0; s < STATES; s++) {
+        double v = constants[j][s];
+        if (Double.isInfinite(v)) {
+          throw new IllegalArgumentException("Cannot impute the infinite value " + v);
+        }
+        c[j][s] = v * scales[j] - centres[j] * scales[j];
+      }
+    }
+    return c;
+  }
+
+  /** Sums over the rows that count for the pair (j, k), constants c centred as deviations. */
+  private Sums pair(int j, int k, double[][] c) {
     int kj = k * p + j;
     int jk = j * p + k;
-    double cj = imputed[j] * scales[j] - centres[j] * scales[j];
-    double ck = imputed[k] * scales[k] - centres[k] * scales[k];
-    boolean fillJ = !Double.isNaN(cj);
-    boolean fillK = !Double.isNaN(ck);
-    Sums s = new Sums();
-    // Both present: column totals less their sums over the rows where the other is missing.
-    double nBoth = present[j] - missPresent[kj];
-    double sjBoth = sumU[j] - missU[kj];
-    double skBoth = sumU[k] - missU[jk];
-    double sjjBoth = sumU2[j] - missU2[kj];
-    double skkBoth = sumU2[k] - missU2[jk];
+    Sums sums = new Sums();
+    // Both hold values: column totals less their sums over the rows where the other is constant.
+    double nBoth = present[j];
+    double sjBoth = sumU[j];
+    double skBoth = sumU[k];
+    double sjjBoth = sumU2[j];
+    double skkBoth = sumU2[k];
+    for (int s = 0; s < STATES; s++) {
+      nBoth -= statePresent[s][kj];
+      sjBoth -= stateU[s][kj];
+      skBoth -= stateU[s][jk];
+      sjjBoth -= stateU2[s][kj];
+      skkBoth -= stateU2[s][jk];
+    }
     double sjkBoth = gram[Math.min(j, k) * p + Math.max(j, k)];
-    s.add(nBoth, sjBoth, skBoth, sjjBoth, skkBoth, sjkBoth);
+    sums.add(nBoth, sjBoth, skBoth, sjjBoth, skkBoth, sjkBoth);
     if (j == k) {
-      if (fillJ) {
-        double none = rows - nBoth;
-        s.add(none, none * cj, none * cj, none * cj * cj, none * cj * cj, none * cj * cj);
+      for (int s = 0; s < STATES; s++) {
+        double cj = c[j][s];
+        double n = stateCount[s * STATES + s][jk];
+        if (!Double.isNaN(cj) && n > 0) {
+          sums.add(n, n * cj, n * cj, n * cj * cj, n * cj * cj, n * cj * cj);
+        }
       }
-      return s;
+      return sums;
     }
-    double nJ = present[j];
-    double nK = present[k];
-    if (fillK) {
-      // j present, k missing and filled with ck.
-      double n = nJ - nBoth;
-      double sj = sumU[j] - sjBoth;
-      double sjj = sumU2[j] - sjjBoth;
-      s.add(n, sj, n * ck, sjj, n * ck * ck, ck * sj);
+    for (int s = 0; s < STATES; s++) {
+      double ck = c[k][s];
+      if (!Double.isNaN(ck)) {
+        // j holds a value, k is in state s.
+        double n = statePresent[s][kj];
+        double sj = stateU[s][kj];
+        double sjj = stateU2[s][kj];
+        sums.add(n, sj, n * ck, sjj, n * ck * ck, ck * sj);
+      }
+      double cj = c[j][s];
+      if (!Double.isNaN(cj)) {
+        double n = statePresent[s][jk];
+        double sk = stateU[s][jk];
+        double skk = stateU2[s][jk];
+        sums.add(n, n * cj, sk, n * cj * cj, skk, cj * sk);
+      }
+      for (int t = 0; t < STATES; t++) {
+        double ckt = c[k][t];
+        if (!Double.isNaN(cj) && !Double.isNaN(ckt)) {
+          // j in state s, k in state t.
+          double n = stateCount[s * STATES + t][jk];
+          sums.add(n, n * cj, n * ckt, n * cj * cj, n * ckt * ckt, n * cj * ckt);
+        }
+      }
     }
-    if (fillJ) {
-      double n = nK - nBoth;
-      double sk = sumU[k] - skBoth;
-      double skk = sumU2[k] - skkBoth;
-      s.add(n, n * cj, sk, n * cj * cj, skk, cj * sk);
-    }
-    if (fillJ && fillK) {
-      double n = rows - nJ - nK + nBoth;
-      s.add(n, n * cj, n * ck, n * cj * cj, n * ck * ck, n * cj * ck);
-    }
-    return s;
+    return sums;
   }
 
   /** Running totals of one pair: count, sums, sums of squares and of products. */
@@ -352,18 +481,6 @@ public final class CoMoments implements Serializable {
       }
       double r = (sjk - sj * sk / n) / (Math.sqrt(ssj) * Math.sqrt(ssk));
       return Math.max(-1.0, Math.min(1.0, r));
-    }
-  }
-
-  private void checkImputed(double[] imputed) {
-    if (imputed.length != p) {
-      throw new IllegalArgumentException(
-          "Cannot impute " + imputed.length + " values into " + p + " columns");
-    }
-    for (double c : imputed) {
-      if (Double.isInfinite(c)) {
-        throw new IllegalArgumentException("Cannot impute the infinite value " + c);
-      }
     }
   }
 

@@ -195,6 +195,57 @@ class CoMomentsTest {
   }
 
   @Test
+  void constantStatesMatchTheRowsWithTheirConstantsFilledIn() {
+    // Rows whose entries are values, missing, below or above; each state's constant is given only
+    // when the sums are read (as capping limits are known only after the pass). Reference:
+    // Commons Math Covariance and PearsonsCorrelation on the same rows with the constants written
+    // in (D). Split into parts and merged, as the passes do.
+    Random random = new Random(41);
+    int p = 4;
+    int n = 3_000;
+    double[][] values = new double[n][p];
+    byte[][] states = new byte[n][p];
+    double[][] constants = {{-1.5, -3.0, 3.0}, {10.0, 2.0, 30.0}, {0.25, -0.5, 1.5}, {7.0, 5.0, 9.0}};
+    double[][] filled = new double[n][p];
+    for (int r = 0; r < n; r++) {
+      for (int j = 0; j < p; j++) {
+        values[r][j] = random.nextGaussian() * (j + 1) + (j == 3 ? values[r][0] : 0.0);
+        double u = random.nextDouble();
+        states[r][j] = u < 0.08 ? CoMoments.MISSING : u < 0.12 ? CoMoments.BELOW : u < 0.16 ? CoMoments.ABOVE : CoMoments.VALUE;
+        filled[r][j] = states[r][j] == CoMoments.VALUE ? values[r][j] : constants[j][states[r][j] - 1];
+      }
+    }
+    double[] centres = {0.1, -0.2, 0.3, 0.0};
+    CoMoments whole = null;
+    for (int part = 0; part < 3; part++) {
+      CoMoments m = new CoMoments(centres);
+      for (int r = part; r < n; r += 3) {
+        m.add(values[r], states[r]);
+      }
+      whole = whole == null ? m : whole.merge(m);
+    }
+    double[][] cov = whole.covariance(constants);
+    double[][] cor = whole.correlation(constants);
+    double[][] refCov = new Covariance(filled).getCovarianceMatrix().getData();
+    double[][] refCor = new PearsonsCorrelation(filled).getCorrelationMatrix().getData();
+    for (int j = 0; j < p; j++) {
+      for (int k = 0; k < p; k++) {
+        assertThat(cov[j][k]).as("cov %d %d", j, k).isCloseTo(refCov[j][k], within(1e-10 * Math.abs(refCov[j][j])));
+        assertThat(cor[j][k]).as("r %d %d", j, k).isCloseTo(refCor[j][k], within(1e-12));
+      }
+    }
+    // A NaN constant leaves that state's rows out of the column's pairs (pairwise complete).
+    double[][] noBelow = {{-1.5, Double.NaN, 3.0}, constants[1], constants[2], constants[3]};
+    double[][] kept = Arrays.stream(java.util.stream.IntStream.range(0, n).toArray())
+        .filter(r -> states[r][0] != CoMoments.BELOW).mapToObj(r -> new double[] {filled[r][0], filled[r][1]})
+        .toArray(double[][]::new);
+    double ref01 = new PearsonsCorrelation(kept).getCorrelationMatrix().getEntry(0, 1);
+    assertThat(whole.correlation(noBelow)[0][1]).isCloseTo(ref01, within(1e-12));
+    assertThatThrownBy(() -> new CoMoments(centres).add(new double[] {1, 2, 3, 4}, new byte[] {0, 0, 0, 9}))
+        .hasMessage("Cannot add an entry in state 9 in column 3");
+  }
+
+  @Test
   void rejectsBadInput() {
     CoMoments moments = new CoMoments(new double[] {0, 0});
     assertThatThrownBy(() -> moments.add(new double[] {1})).isInstanceOf(IllegalArgumentException.class)
