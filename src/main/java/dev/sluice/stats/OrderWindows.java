@@ -100,22 +100,82 @@ public final class OrderWindows implements Serializable {
     return Double.longBitsToDouble(k ^ ((k >> 63) & 0x7fffffffffffffffL));
   }
 
-  /** Adds one finite value (not checked: this is the per-value path). */
-  public void add(double x) {
+  /**
+   * Adds one finite value (not checked: this is the per-value path) and returns its region (even:
+   * a gap, odd: a window; see {@link #regionCount}).
+   */
+  public int add(double x) {
     long k = key(x);
     int w = windowAtOrBelow(k);
     if (w < 0) {
       counts[0]++;
-    } else if (k > hi[w]) {
-      counts[2 * w + 2]++;
-    } else {
-      counts[2 * w + 1]++;
-      if (held[w] != null) {
-        hold(w, x + 0.0);
-      } else if (buckets[w] != null) {
-        buckets[w][bucketOf(w, k)]++;
-      }
+      return 0;
     }
+    if (k > hi[w]) {
+      counts[2 * w + 2]++;
+      return 2 * w + 2;
+    }
+    counts[2 * w + 1]++;
+    if (held[w] != null) {
+      hold(w, x + 0.0);
+    } else if (buckets[w] != null) {
+      buckets[w][bucketOf(w, k)]++;
+    }
+    return 2 * w + 1;
+  }
+
+  /** Number of regions: gaps and windows, 2 w + 1. */
+  public int regions() {
+    return counts.length;
+  }
+
+  /**
+   * The region a value falls in, as {@link #add} would place it (-0.0 as 0.0); for a finite or
+   * infinite value.
+   */
+  public int regionOf(double x) {
+    long k = key(x);
+    int w = windowAtOrBelow(k);
+    return w < 0 ? 0 : k > hi[w] ? 2 * w + 2 : 2 * w + 1;
+  }
+
+  /**
+   * How many values counted are below {@code f} ({@code orEqual}: at or below), exactly; -1 when
+   * the counts cannot tell (f lies in a gap, or in a window that overflowed into a histogram).
+   */
+  public long countBelow(double f, boolean orEqual) {
+    int r = regionOf(f);
+    if (r % 2 == 0) {
+      return -1;
+    }
+    int w = (r - 1) / 2;
+    long before = 0;
+    for (int i = 0; i < r; i++) {
+      before += counts[i];
+    }
+    if (lo[w] == hi[w]) {
+      return orEqual ? before + counts[r] : before;
+    }
+    if (held[w] == null) {
+      return -1;
+    }
+    long in = 0;
+    double g = f + 0.0;
+    for (int i = 0; i < heldSize[w]; i++) {
+      double v = held[w][i];
+      in += (orEqual ? v <= g : v < g) ? 1 : 0;
+    }
+    return before + in;
+  }
+
+  /** Values held in window w (unsorted, a copy); empty for a single-key or overflowed window. */
+  public double[] heldValues(int w) {
+    return held[w] == null ? new double[0] : Arrays.copyOf(held[w], heldSize[w]);
+  }
+
+  /** True when window w only counts one key. */
+  public boolean singleKey(int w) {
+    return lo[w] == hi[w];
   }
 
   /** The last window whose first key is at most k, or -1. */

@@ -44,6 +44,8 @@ public final class RankSearch {
   private final List<long[]> pending = new ArrayList<>();
   private final List<Boolean> pendingTooMany = new ArrayList<>();
   private int passes;
+  /** The last pass absorbed: later questions about ranks are read off its counts. */
+  private OrderWindows lastPass;
 
   /**
    * @param probabilities the quantiles wanted, each in [0, 1]
@@ -68,24 +70,27 @@ public final class RankSearch {
    * a pilot, or when the whole column fits, one window holds every value.
    */
   public OrderWindows firstPlan(double[] pilot, long expectedCount) {
+    return firstPlan(pilot, expectedCount, List.of());
+  }
+
+  /**
+   * As {@link #firstPlan(double[], long)}, with further ranges of values, {@code {low, high}}
+   * inclusive, that the windows must also cover (where other figures will be read off, such as
+   * counts below an outlier limit known only after the pass).
+   */
+  public OrderWindows firstPlan(double[] pilot, long expectedCount, List<double[]> alsoCover) {
     if (pilot.length == 0 || expectedCount <= maxHeld) {
       return windows(List.of(new long[] {Long.MIN_VALUE, Long.MAX_VALUE}), List.of(false));
     }
-    double[] sorted = pilot.clone();
-    for (int i = 0; i < sorted.length; i++) {
-      sorted[i] += 0.0;
-    }
-    Arrays.sort(sorted);
+    double[] sorted = sorted(pilot);
     int m = sorted.length;
-    // Widen the brackets while the values they are expected to hold stay a small share of memory.
-    double affordable = HELD_SHARE * maxHeld / (2.0 * Math.max(1, expectedCount));
     List<long[]> brackets = new ArrayList<>();
     for (double p : probabilities) {
-      double d = Math.max(BRACKET_ERRORS * Math.sqrt(p * (1 - p) / m) + 2.0 / m, affordable);
-      long first = p - d <= 0 ? Long.MIN_VALUE : OrderWindows.key(sorted[(int) Math.floor((p - d) * m)]);
-      int top = (int) Math.ceil((p + d) * m);
-      long last = top >= m ? Long.MAX_VALUE : OrderWindows.key(sorted[top]);
-      brackets.add(new long[] {first, last});
+      double[] b = bracket(sorted, p, expectedCount, maxHeld);
+      brackets.add(new long[] {OrderWindows.key(b[0]), OrderWindows.key(b[1])});
+    }
+    for (double[] r : alsoCover) {
+      brackets.add(new long[] {OrderWindows.key(r[0]), OrderWindows.key(r[1])});
     }
     List<long[]> merged = union(brackets);
     // A value the pilot shows many times is a single-key window: it is counted, never held.
@@ -97,6 +102,32 @@ public final class RankSearch {
     List<Boolean> flags = new ArrayList<>();
     split.forEach(w -> flags.add(false));
     return windows(split, flags);
+  }
+
+  /** A copy of the pilot in ascending order, -0.0 as 0.0. */
+  public static double[] sorted(double[] pilot) {
+    double[] sorted = pilot.clone();
+    for (int i = 0; i < sorted.length; i++) {
+      sorted[i] += 0.0;
+    }
+    Arrays.sort(sorted);
+    return sorted;
+  }
+
+  /**
+   * The values {@code {low, high}} between which the quantile at p lies with near certainty, from
+   * a sorted pilot: the pilot's quantiles at p -/+ d, d six standard errors of a sample quantile,
+   * widened while the expected held values stay a small share of memory; -/+ Infinity where the
+   * bracket runs past the pilot's ends.
+   */
+  public static double[] bracket(double[] sorted, double p, long expectedCount, int maxHeld) {
+    int m = sorted.length;
+    double affordable = HELD_SHARE * maxHeld / (2.0 * Math.max(1, expectedCount));
+    double d = Math.max(BRACKET_ERRORS * Math.sqrt(p * (1 - p) / m) + 2.0 / m, affordable);
+    double low = p - d <= 0 ? Double.NEGATIVE_INFINITY : sorted[(int) Math.floor((p - d) * m)];
+    int top = (int) Math.ceil((p + d) * m);
+    double high = top >= m ? Double.POSITIVE_INFINITY : sorted[top];
+    return new double[] {low, high};
   }
 
   /** Cuts the heavy pilot values inside a key range out as single-key windows. */
@@ -162,6 +193,7 @@ public final class RankSearch {
    */
   public boolean absorb(OrderWindows pass) {
     passes++;
+    lastPass = pass;
     long n = pass.total();
     if (count < 0) {
       count = n;
@@ -264,6 +296,31 @@ public final class RankSearch {
       tooMany.add(pendingTooMany.get(i));
     }
     return windows(ranges, tooMany);
+  }
+
+  /**
+   * The order statistic of any rank (1-based) among the values, when the last pass's counts place
+   * it inside a window whose values were kept or which holds a single value; empty otherwise.
+   */
+  public java.util.OptionalDouble orderStatistic(long rank) {
+    if (lastPass == null || rank < 1 || rank > count) {
+      return java.util.OptionalDouble.empty();
+    }
+    long before = 0;
+    for (int region = 0; region < lastPass.regions(); region++) {
+      long c = lastPass.regionCount(region);
+      if (rank > before + c) {
+        before += c;
+        continue;
+      }
+      int w = (region - 1) / 2;
+      if (region % 2 == 0 || !lastPass.resolved(w)) {
+        return java.util.OptionalDouble.empty();
+      }
+      return java.util.OptionalDouble.of(lastPass.singleKey(w)
+          ? OrderWindows.value(lastPass.firstKey(w)) : lastPass.heldValue(w, (int) (rank - before - 1)));
+    }
+    return java.util.OptionalDouble.empty();
   }
 
   /** Passes absorbed so far. */

@@ -100,6 +100,25 @@ public final class ScaledMoments implements Serializable {
   }
 
   /**
+   * Adds {@code copies} values equal to x at once, exactly as merging a part that holds only them
+   * (a capped value is such a part: every value beyond a limit becomes the limit).
+   *
+   * @throws IllegalArgumentException for a non-finite x or negative copies
+   */
+  public ScaledMoments addCopies(double x, long copies) {
+    if (copies < 0) {
+      throw new IllegalArgumentException("Cannot add " + copies + " copies of a value");
+    }
+    if (copies == 0) {
+      return this;
+    }
+    ScaledMoments part = new ScaledMoments();
+    part.add(x);
+    part.count = copies;
+    return merge(part);
+  }
+
+  /**
    * Folds {@code other} into this instance (Chan et al.'s combination of two disjoint parts) and
    * returns this; {@code other} is not changed. Merging an empty part changes nothing; merging into
    * an empty instance copies the other part. An instance merged with itself counts its values twice.

@@ -182,6 +182,33 @@ class ScaledMomentsTest {
   // values up to 1e200 its sum of squares would overflow, so it gets the data times 2^-600 (exact)
   // and its results are multiplied back by 2^600 (exact).
   @Test
+  void copiesOfOneValueAreAddedAtOnce() {
+    // Reference: Commons Math DescriptiveStatistics on the values with the copies written out
+    // (D): a sample capped at 2.5 from above and at -1.0 from below.
+    Random random = new Random(3);
+    ScaledMoments m = new ScaledMoments();
+    DescriptiveStatistics reference = new DescriptiveStatistics();
+    for (int i = 0; i < 500; i++) {
+      double x = random.nextGaussian();
+      m.add(x);
+      reference.addValue(x);
+    }
+    m.addCopies(2.5, 37).addCopies(-1.0, 12).addCopies(9.0, 0);
+    for (int i = 0; i < 37; i++) {
+      reference.addValue(2.5);
+    }
+    for (int i = 0; i < 12; i++) {
+      reference.addValue(-1.0);
+    }
+    assertThat(m.count()).isEqualTo(549);
+    assertThat(m.mean()).isCloseTo(reference.getMean(), within(1e-14));
+    assertThat(m.stddev()).isCloseTo(reference.getStandardDeviation(), within(1e-13));
+    assertThat(m.max()).isEqualTo(Math.max(2.5, reference.getMax()));
+    assertThat(new ScaledMoments().addCopies(1.5e300, 4).stddev()).isZero();
+    assertThatThrownBy(() -> m.addCopies(1.0, -1)).isInstanceOf(IllegalArgumentException.class);
+  }
+
+  @Test
   void agreesWithCommonsMathOnSeededRandomDataInOneAndManyParts() {
     for (double[] x : randomSamples()) {
       double scale = maxAbs(x) > 1e150 ? 0x1p-600 : 1.0;
