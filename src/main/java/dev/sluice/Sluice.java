@@ -51,9 +51,14 @@ public final class Sluice {
     TableProfile profile = Profiler.profile(data, settings, roles);
     seconds.put("profile", elapsed(t0));
     Map<String, OutlierPlan> outliers = Planner.outliers(profile, settings);
-    progress.accept("pass 2 of 3: statistics of the treated values (" + profile.rows() + " rows)");
     long t1 = System.nanoTime();
-    TreatedStats stats = TreatedStatsPass.run(data, profile, outliers, settings);
+    Optional<TreatedStats> early = TreatedStatsPass.fromPassOne(profile, outliers, settings);
+    if (early.isPresent()) {
+      progress.accept("pass 2 of 3 not needed: pass 1 also gave the statistics of the treated values");
+    } else {
+      progress.accept("pass 2 of 3: statistics of the treated values (" + profile.rows() + " rows)");
+    }
+    TreatedStats stats = early.orElseGet(() -> TreatedStatsPass.run(data, profile, outliers, settings));
     seconds.put("treated-statistics", elapsed(t1));
     Plan plan = Planner.finish(profile, settings, outliers, stats);
     TreatedTable.checkNoCollisions(data.schema(), plan);

@@ -3,6 +3,7 @@ package dev.sluice.plan;
 import dev.sluice.config.CollinearitySettings;
 import dev.sluice.config.Settings;
 import dev.sluice.profile.TableProfile;
+import dev.sluice.stats.CoMoments;
 import dev.sluice.stats.Collinearity;
 import dev.sluice.stats.Published;
 import dev.sluice.stats.NumericSteps;
@@ -31,12 +32,7 @@ final class CollinearityPlanner {
           cs.pairThreshold(), cs.vifLimit());
     }
     List<String> all = stats.comomentColumns();
-    double[] fills = new double[all.size()];
-    for (int i = 0; i < all.size(); i++) {
-      Double fill = find(plans, all.get(i)).missing().fillNumber();
-      fills[i] = fill == null ? Double.NaN : fill;
-    }
-    double[][] pearson = rounded(stats.pearson().correlation(fills));
+    double[][] pearson = rounded(stats.pearson().correlation(constants(plans, all)));
     double[][] spearman = rounded(spearman(profile, plans, all));
     List<Integer> keep = new ArrayList<>();
     for (int i = 0; i < all.size(); i++) {
@@ -49,6 +45,25 @@ final class CollinearityPlanner {
           "skipped: fewer than 2 columns with variance", cs.pairThreshold(), cs.vifLimit());
     }
     return findings(names(all, keep), sub(pearson, keep), sub(spearman, keep), cs);
+  }
+
+  /**
+   * Per column, the value of each constant state of the co-moments: a missing entry becomes the
+   * imputation value (NaN: not imputed), an entry capped below or above becomes the plan's limit.
+   */
+  private static double[][] constants(List<ColumnPlan> plans, List<String> all) {
+    double[][] c = new double[all.size()][CoMoments.STATES];
+    for (int i = 0; i < all.size(); i++) {
+      ColumnPlan plan = find(plans, all.get(i));
+      c[i][CoMoments.MISSING - 1] = orNaN(plan.missing().fillNumber());
+      c[i][CoMoments.BELOW - 1] = orNaN(plan.outliers().lower());
+      c[i][CoMoments.ABOVE - 1] = orNaN(plan.outliers().upper());
+    }
+    return c;
+  }
+
+  private static double orNaN(Double d) {
+    return d == null ? Double.NaN : d;
   }
 
   private static CollinearityFindings findings(

@@ -43,7 +43,10 @@ final class ProfileAccumulator implements RowScan.Accumulator<ProfileAccumulator
   final long[] nan;
   final long[] infinite;
   final long[] invalid;
-  final ScaledMoments[] moments;
+  /** Per measured column, the moments of the values in each region of its windows. */
+  final ScaledMoments[][] moments;
+  /** Pass 1's share of pass 2, or null when it is not attempted. */
+  final EarlyTreatment early;
   final OrderWindows[] windows;
   final DistinctCount[] distinct;
   final HashedCounts<UTF8String>[] values;
@@ -61,7 +64,7 @@ final class ProfileAccumulator implements RowScan.Accumulator<ProfileAccumulator
    */
   @SuppressWarnings("unchecked")
   ProfileAccumulator(ProfileLayout layout, NumericSteps[] validity, OrderWindows[] windows,
-      int[] sampled, int sampleRows, long sampleCut) {
+      int[] sampled, int sampleRows, long sampleCut, EarlyTreatment early) {
     int n = layout.names.length;
     this.layout = layout;
     this.validity = validity;
@@ -72,10 +75,13 @@ final class ProfileAccumulator implements RowScan.Accumulator<ProfileAccumulator
     this.nan = new long[layout.measured];
     this.infinite = new long[layout.measured];
     this.invalid = new long[layout.measured];
-    this.moments = new ScaledMoments[layout.measured];
+    this.moments = new ScaledMoments[layout.measured][];
     this.windows = new OrderWindows[layout.measured];
     for (int j = 0; j < layout.measured; j++) {
-      moments[j] = new ScaledMoments();
+      moments[j] = new ScaledMoments[windows[j].regions()];
+      for (int r = 0; r < moments[j].length; r++) {
+        moments[j][r] = new ScaledMoments();
+      }
       this.windows[j] = windows[j].emptyCopy();
     }
     this.distinct = new DistinctCount[n];
@@ -102,6 +108,7 @@ final class ProfileAccumulator implements RowScan.Accumulator<ProfileAccumulator
       }
     }
     this.sample = sampled.length >= 2 && sampleRows > 0 ? new RowSample(sampleRows, sampled.length) : null;
+    this.early = early == null ? null : early.emptyCopy();
   }
 
   /** The cut for a sample of {@code sampleRows} out of {@code rows}: see {@link #sampleCut}. */
@@ -114,7 +121,7 @@ final class ProfileAccumulator implements RowScan.Accumulator<ProfileAccumulator
 
   /** An empty accumulator over the same layout and windows, for one partition. */
   ProfileAccumulator emptyCopy() {
-    return new ProfileAccumulator(layout, validity, windows, sampled, sampleRows, sampleCut);
+    return new ProfileAccumulator(layout, validity, windows, sampled, sampleRows, sampleCut, early);
   }
 
   @Override
@@ -148,12 +155,12 @@ final class ProfileAccumulator implements RowScan.Accumulator<ProfileAccumulator
         });
       }
     }
-    if (sample != null) {
+    if (sample != null || early != null) {
       for (int s = 0; s < sampled.length; s++) {
         int j = sampled[s];
         sampleRow()[s] = row.isNullAt(j) ? Double.NaN : row.getDouble(j);
       }
-      offerSample();
+      offerRow();
     }
   }
 
@@ -207,13 +214,13 @@ final class ProfileAccumulator implements RowScan.Accumulator<ProfileAccumulator
         }
       }
     }
-    if (sample != null) {
+    if (sample != null || early != null) {
       double[] row = sampleRow();
       for (int r = 0; r < n; r++) {
         for (int s = 0; s < sampled.length; s++) {
           row[s] = batchValues[sampled[s]][r];
         }
-        offerSample();
+        offerRow();
       }
     }
   }
@@ -227,8 +234,7 @@ final class ProfileAccumulator implements RowScan.Accumulator<ProfileAccumulator
     } else if (validity[j].invalid(x)) {
       invalid[j]++;
     } else {
-      moments[j].add(x);
-      windows[j].add(x);
+      moments[j][windows[j].add(x)].add(x);
     }
   }
 
@@ -261,9 +267,13 @@ final class ProfileAccumulator implements RowScan.Accumulator<ProfileAccumulator
     return sampleRow;
   }
 
-  private void offerSample() {
-    if (RowSample.hash(sampleRow) < sampleCut) {
+  /** The sampled columns' raw values of one row, to the row sample and pass 1's share of pass 2. */
+  private void offerRow() {
+    if (sample != null && RowSample.hash(sampleRow) < sampleCut) {
       sample.add(sampleRow);
+    }
+    if (early != null) {
+      early.add(sampleRow);
     }
   }
 
@@ -285,11 +295,16 @@ final class ProfileAccumulator implements RowScan.Accumulator<ProfileAccumulator
       nan[j] += o.nan[j];
       infinite[j] += o.infinite[j];
       invalid[j] += o.invalid[j];
-      moments[j].merge(o.moments[j]);
+      for (int r = 0; r < moments[j].length; r++) {
+        moments[j][r].merge(o.moments[j][r]);
+      }
       windows[j].merge(o.windows[j]);
     }
     if (sample != null) {
       sample.merge(o.sample);
+    }
+    if (early != null) {
+      early.merge(o.early);
     }
     return this;
   }

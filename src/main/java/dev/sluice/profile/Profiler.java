@@ -69,13 +69,15 @@ public final class Profiler {
       ColumnSettings cs = settings.column(layout.names[measured[j]]);
       validity[j] = NumericSteps.validity(boxed(cs.validMin()), boxed(cs.validMax()));
     }
-    List<RankSearch> searches = new ArrayList<>();
-    OrderWindows[] first = firstWindows(perWindow, validity, pilot, rows, searches);
     int[] sampled = sampledColumns(layout, measured, settings);
+    EarlySetup early = pilot.length > 0 && pilot[0].length > 0
+        ? EarlySetup.of(settings, layout, validity, pilot, rows, sampled, perWindow) : null;
+    List<RankSearch> searches = new ArrayList<>();
+    OrderWindows[] first = firstWindows(perWindow, validity, pilot, rows, searches, early);
     int sampleRows = Math.min(settings.collinearity().spearmanRows(),
         Math.max(1_000, VALUE_BUDGET / Math.max(1, sampled.length)));
     ProfileAccumulator proto = new ProfileAccumulator(layout, validity, first, sampled, sampleRows,
-        ProfileAccumulator.sampleCut(sampleRows, rows));
+        ProfileAccumulator.sampleCut(sampleRows, rows), early == null ? null : early.treatment);
     Optional<JavaRDD<ColumnarBatch>> batches = columnar && layout.columnar()
         ? Batches.of(data.select(layout.raw().toArray(new Column[0]))) : Optional.empty();
     ProfileAccumulator acc = batches.isPresent()
@@ -98,18 +100,24 @@ public final class Profiler {
     for (int s : sampled) {
       sampleNames.add(layout.names[measured[s]]);
     }
+    PassOneShare share = early == null ? null : new PassOneShare(List.copyOf(pilotByName.keySet()),
+        acc.windows, acc.moments, List.copyOf(sampleNames),
+        acc.early == null ? null : acc.early.comoments,
+        acc.early == null ? null : acc.early.actions(), acc.early == null ? null : acc.early.bands(),
+        acc.early == null ? List.of() : acc.early.pending, acc.early != null && acc.early.overflowed);
     return new TableProfile(acc.rows, columns(data.sparkSession(), layout, acc, quartiles, mad),
-        sampleNames, acc.sample, pilotByName, quartiles);
+        sampleNames, acc.sample, pilotByName, quartiles, share);
   }
 
   /** Each measured column's quartile search, and the windows of its first pass. */
   private static OrderWindows[] firstWindows(int perWindow, NumericSteps[] validity,
-      double[][] pilot, long rows, List<RankSearch> searches) {
+      double[][] pilot, long rows, List<RankSearch> searches, EarlySetup early) {
     OrderWindows[] first = new OrderWindows[validity.length];
     for (int j = 0; j < validity.length; j++) {
       double[] usable = usable(pilot[j], validity[j]);
       RankSearch search = new RankSearch(QUARTILES, perWindow);
-      first[j] = search.firstPlan(usable, expected(rows, usable.length, pilot[j].length));
+      first[j] = search.firstPlan(usable, expected(rows, usable.length, pilot[j].length),
+          early == null ? List.of() : early.cover.get(j));
       searches.add(search);
     }
     return first;
@@ -218,7 +226,10 @@ public final class Profiler {
 
   private static ColumnProfile measuredProfile(ProfileLayout layout, int i, ProfileAccumulator acc, int j,
       double[] q, double mad) {
-    ScaledMoments m = acc.moments[j];
+    ScaledMoments m = new ScaledMoments();
+    for (ScaledMoments region : acc.moments[j]) {
+      m.merge(region);
+    }
     long usable = m.count();
     return new ColumnProfile(layout.names[i], layout.types[i], ColumnKind.NUMERIC, layout.roles[i], acc.rows,
         acc.rows - acc.present[i], acc.nan[j], acc.infinite[j], acc.invalid[j], usable,

@@ -17,6 +17,7 @@ import java.util.Optional;
  *     the table was small enough to need none): where later searches place their first windows
  * @param quartiles per measured column, its finished quartile search, which also gives the
  *     quartiles of the column under any order-keeping step such as capping
+ * @param share what pass 1 gathered to spare pass 2, or null when it did not try
  */
 public record TableProfile(
     long rows,
@@ -24,7 +25,8 @@ public record TableProfile(
     List<String> sampleColumns,
     RowSample sample,
     Map<String, double[]> pilot,
-    Map<String, RankSearch> quartiles) {
+    Map<String, RankSearch> quartiles,
+    PassOneShare share) {
 
   public Optional<ColumnProfile> column(String name) {
     return columns.stream().filter(c -> c.name().equals(name)).findFirst();

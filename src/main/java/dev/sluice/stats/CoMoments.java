@@ -133,6 +133,47 @@ public final class CoMoments implements Serializable {
     return new CoMoments(centres, scales);
   }
 
+  /**
+   * The sums of the columns {@code keep} only, in that order: the same figures as if only those
+   * columns had been added (a row's entries in other columns never enter a kept pair's sums).
+   */
+  public CoMoments subset(int[] keep) {
+    flush();
+    int q = keep.length;
+    double[] c = new double[q];
+    double[] f = new double[q];
+    for (int a = 0; a < q; a++) {
+      c[a] = centres[keep[a]];
+      f[a] = scales[keep[a]];
+    }
+    CoMoments out = new CoMoments(c, f);
+    out.rows = rows;
+    for (int a = 0; a < q; a++) {
+      int j = keep[a];
+      out.sumU[a] = sumU[j];
+      out.sumU2[a] = sumU2[j];
+      out.present[a] = present[j];
+      for (int b = 0; b < q; b++) {
+        int k = keep[b];
+        out.gram[a * q + b] = gram[Math.min(j, k) * p + Math.max(j, k)];
+        for (int s = 0; s < STATES; s++) {
+          out.stateU[s][a * q + b] = stateU[s][j * p + k];
+          out.stateU2[s][a * q + b] = stateU2[s][j * p + k];
+          out.statePresent[s][a * q + b] = statePresent[s][j * p + k];
+        }
+        for (int st = 0; st < STATES * STATES; st++) {
+          out.stateCount[st][a * q + b] = stateCount[st][j * p + k];
+        }
+      }
+    }
+    return out;
+  }
+
+  /** The power-of-two factor column j's deviations are scaled by. */
+  public double scale(int j) {
+    return scales[j];
+  }
+
   public int dimension() {
     return p;
   }

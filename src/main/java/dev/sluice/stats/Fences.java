@@ -42,6 +42,34 @@ public record Fences(double lower, double upper) {
   }
 
   /**
+   * The range each Tukey fence can take while Q1 lies in [q1Low, q1High] and Q3 in
+   * [q3Low, q3High]: {lowerMin, lowerMax, upperMin, upperMax}. Q1 - k IQR = (1 + k) Q1 - k Q3 grows
+   * with Q1 and falls with Q3, and Q3 + k IQR the other way round. The range is widened by a
+   * relative 1e-9 so that the fences as published (12 significant digits) stay inside it.
+   *
+   * @throws IllegalArgumentException for non-finite bounds, q1High >= q3Low (the IQR could be
+   *     zero), or k negative or NaN
+   */
+  public static double[] tukeyRange(double q1Low, double q1High, double q3Low, double q3High, double k) {
+    for (double b : new double[] {q1Low, q1High, q3Low, q3High}) {
+      requireFinite(b, "a quartile bound");
+    }
+    requireMultiplier(k, "k");
+    if (!(q1Low <= q1High && q1High < q3Low && q3Low <= q3High)) {
+      throw new IllegalArgumentException("Cannot bound fences from Q1 in [" + q1Low + ", " + q1High
+          + "] and Q3 in [" + q3Low + ", " + q3High + "]");
+    }
+    double[] r = {
+      q1Low - reach(k, q3High - q1Low), q1High - reach(k, q3Low - q1High),
+      q3Low + reach(k, q3Low - q1High), q3High + reach(k, q3High - q1Low)};
+    for (int i = 0; i < 4; i++) {
+      double slack = Math.abs(r[i]) * 1e-9 + Double.MIN_NORMAL;
+      r[i] += i % 2 == 0 ? -slack : slack;
+    }
+    return r;
+  }
+
+  /**
    * mean -/+ limit * sd: the values whose |z| exceeds {@code limit}.
    *
    * @throws IllegalArgumentException for a non-finite mean, sd negative or NaN, limit negative or

@@ -290,6 +290,28 @@ public final class OrderWindows implements Serializable {
     return lo.length;
   }
 
+  /**
+   * The order statistic of a rank (1-based) among all the values counted, when the counts place it
+   * inside a window that kept its values or holds a single value; empty otherwise.
+   */
+  public java.util.OptionalDouble orderStatistic(long rank) {
+    long before = 0;
+    for (int region = 0; region < counts.length; region++) {
+      long c = counts[region];
+      if (rank < 1 || rank > before + c) {
+        before += c;
+        continue;
+      }
+      int w = (region - 1) / 2;
+      if (region % 2 == 0 || !resolved(w)) {
+        return java.util.OptionalDouble.empty();
+      }
+      return java.util.OptionalDouble.of(
+          singleKey(w) ? value(lo[w]) : heldValue(w, (int) (rank - before - 1)));
+    }
+    return java.util.OptionalDouble.empty();
+  }
+
   /** Values counted in all regions. */
   public long total() {
     long n = 0;

@@ -69,7 +69,7 @@ public final class Quantiles {
    * The point {@code fraction} of the way from order statistic a to the next one, b: type 7's
    * interpolation step, shared by every path that computes it so that all give the same bits.
    */
-  static double between(double a, double b, double fraction) {
+  public static double between(double a, double b, double fraction) {
     // Skipping the product keeps order statistics exact and equal infinite neighbours finite-safe.
     if (fraction == 0.0 || a == b) {
       return a;

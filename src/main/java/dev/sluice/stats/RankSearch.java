@@ -30,7 +30,7 @@ import java.util.List;
  */
 public final class RankSearch {
   /** Standard errors of a pilot quantile covered on each side of a bracket. */
-  static final double BRACKET_ERRORS = 6.0;
+  public static final double BRACKET_ERRORS = 6.0;
   /** Share of maxHeld that the expected number of held values of one bracket may use. */
   static final double HELD_SHARE = 0.125;
 
@@ -303,24 +303,7 @@ public final class RankSearch {
    * it inside a window whose values were kept or which holds a single value; empty otherwise.
    */
   public java.util.OptionalDouble orderStatistic(long rank) {
-    if (lastPass == null || rank < 1 || rank > count) {
-      return java.util.OptionalDouble.empty();
-    }
-    long before = 0;
-    for (int region = 0; region < lastPass.regions(); region++) {
-      long c = lastPass.regionCount(region);
-      if (rank > before + c) {
-        before += c;
-        continue;
-      }
-      int w = (region - 1) / 2;
-      if (region % 2 == 0 || !lastPass.resolved(w)) {
-        return java.util.OptionalDouble.empty();
-      }
-      return java.util.OptionalDouble.of(lastPass.singleKey(w)
-          ? OrderWindows.value(lastPass.firstKey(w)) : lastPass.heldValue(w, (int) (rank - before - 1)));
-    }
-    return java.util.OptionalDouble.empty();
+    return lastPass == null ? java.util.OptionalDouble.empty() : lastPass.orderStatistic(rank);
   }
 
   /** Passes absorbed so far. */

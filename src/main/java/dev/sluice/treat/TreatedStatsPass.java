@@ -41,6 +41,15 @@ public final class TreatedStatsPass {
 
   private TreatedStatsPass() {}
 
+  /**
+   * The statistics of the treated values from pass 1 alone, when it could gather them exactly
+   * (see {@link PassOneFinish}); empty when pass 2 must run.
+   */
+  public static Optional<TreatedStats> fromPassOne(
+      TableProfile profile, Map<String, OutlierPlan> outliers, Settings settings) {
+    return PassOneFinish.of(profile, outliers, settings);
+  }
+
   public static TreatedStats run(
       Dataset<Row> data, TableProfile profile, Map<String, OutlierPlan> outliers, Settings settings) {
     List<ColumnProfile> cols = new ArrayList<>();

@@ -246,6 +246,23 @@ class CoMomentsTest {
   }
 
   @Test
+  void aSubsetOfColumnsHasTheSumsOfThoseColumnsAlone() {
+    // Not an outside reference: the subset must equal an accumulator fed those columns only.
+    Random random = new Random(43);
+    double[] centres = {1.0, 2.0, 3.0};
+    CoMoments all = new CoMoments(centres);
+    CoMoments two = new CoMoments(new double[] {3.0, 1.0});
+    for (int r = 0; r < 500; r++) {
+      double[] row = {random.nextGaussian(), random.nextDouble() < 0.1 ? NAN : random.nextGaussian(),
+          random.nextDouble() < 0.2 ? NAN : random.nextGaussian() * 3};
+      all.add(row);
+      two.add(new double[] {row[2], row[0]});
+    }
+    double[] fill = {0.5, -0.5};
+    assertThat(all.subset(new int[] {2, 0}).covariance(fill)).isDeepEqualTo(two.covariance(fill));
+  }
+
+  @Test
   void rejectsBadInput() {
     CoMoments moments = new CoMoments(new double[] {0, 0});
     assertThatThrownBy(() -> moments.add(new double[] {1})).isInstanceOf(IllegalArgumentException.class)

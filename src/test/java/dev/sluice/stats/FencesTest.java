@@ -133,4 +133,32 @@ class FencesTest {
     assertThatThrownBy(() -> Fences.zScore(Double.NaN, 1.0, 3.0)).isInstanceOf(IllegalArgumentException.class);
     assertThatThrownBy(() -> Fences.modifiedZ(0.0, 1.0, Double.NaN)).isInstanceOf(IllegalArgumentException.class);
   }
+
+  @Test
+  void tukeyRangeHoldsTheFencesOfEveryQuartilePairInsideTheBrackets() {
+    // Not an outside reference: the range must hold Tukey's fences (Q1 - k IQR, Q3 + k IQR, the
+    // definition above) of quartiles anywhere in the brackets, and its ends must be reached.
+    double[] r = Fences.tukeyRange(1.0, 1.2, 3.0, 3.5, 1.5);
+    double[] lows = new double[4];
+    double[] highs = new double[4];
+    int c = 0;
+    for (double q1 : new double[] {1.0, 1.2}) {
+      for (double q3 : new double[] {3.0, 3.5}) {
+        Fences f = Fences.tukey(q1, q3, 1.5);
+        lows[c] = f.lower();
+        highs[c++] = f.upper();
+      }
+    }
+    for (int i = 0; i < 1000; i++) {
+      Fences f = Fences.tukey(1.0 + 0.2 * i / 999, 3.5 - 0.5 * (i % 7) / 6, 1.5);
+      assertThat(f.lower()).isBetween(r[0], r[1]);
+      assertThat(f.upper()).isBetween(r[2], r[3]);
+    }
+    assertThat(r[0]).isCloseTo(Arrays.stream(lows).min().getAsDouble(), within(1e-8));
+    assertThat(r[1]).isCloseTo(Arrays.stream(lows).max().getAsDouble(), within(1e-8));
+    assertThat(r[2]).isCloseTo(Arrays.stream(highs).min().getAsDouble(), within(1e-8));
+    assertThat(r[3]).isCloseTo(Arrays.stream(highs).max().getAsDouble(), within(1e-8));
+    assertThatThrownBy(() -> Fences.tukeyRange(1.0, 3.0, 3.0, 3.5, 1.5))
+        .isInstanceOf(IllegalArgumentException.class);
+  }
 }

@@ -1,0 +1,139 @@
+package dev.sluice.profile;
+
+import dev.sluice.stats.CoMoments;
+import dev.sluice.stats.NumericSteps;
+import java.io.Serializable;
+import java.util.ArrayList;
+import java.util.List;
+
+/**
+ * Pass 1's share of pass 2: the co-moments of the treated columns after the outlier step, taken
+ * before the outlier limits are known, so that a run can skip pass 2.
+ *
+ * <p>Each column has a band of values, from the pilot, that surely holds its lower limit, and one
+ * that surely holds its upper limit. A valid value below the lower band is surely beyond the limit:
+ * capped, it becomes the limit, a constant known only later, so it enters the co-moments in the
+ * constant state BELOW (ABOVE likewise); removed, it is missing. A value between the bands is
+ * surely kept as it is. A row with a value inside a band cannot be placed yet: its raw values are
+ * kept aside, up to a limit, and added once the limits are known. Past that limit the attempt
+ * fails and pass 2 runs as usual.
+ */
+final class EarlyTreatment implements Serializable {
+  private static final long serialVersionUID = 1L;
+  private final NumericSteps[] validity;
+  private final NumericSteps.Action[] mode;
+  /** Per column: values below lowEdge are surely below the lower limit, values from lowTop up surely not. */
+  private final double[] lowEdge;
+  private final double[] lowTop;
+  /** Per column: values above highEdge are surely above the upper limit, values up to highBottom surely not. */
+  private final double[] highBottom;
+  private final double[] highEdge;
+  private final int limit;
+
+  final CoMoments comoments;
+  final List<double[]> pending = new ArrayList<>();
+  boolean overflowed;
+  private transient double[] values;
+  private transient byte[] states;
+
+  /**
+   * @param lowBand per column {low, high} of the lower limit's band, or null for no lower limit
+   * @param limit rows with a value inside a band kept aside, at most
+   */
+  EarlyTreatment(NumericSteps[] validity, NumericSteps.Action[] mode, double[][] lowBand, double[][] highBand,
+      CoMoments comoments, int limit) {
+    int p = validity.length;
+    this.validity = validity;
+    this.mode = mode;
+    this.lowEdge = new double[p];
+    this.lowTop = new double[p];
+    this.highBottom = new double[p];
+    this.highEdge = new double[p];
+    for (int s = 0; s < p; s++) {
+      lowEdge[s] = lowBand[s] == null ? Double.NEGATIVE_INFINITY : lowBand[s][0];
+      lowTop[s] = lowBand[s] == null ? Double.NEGATIVE_INFINITY : lowBand[s][1];
+      highBottom[s] = highBand[s] == null ? Double.POSITIVE_INFINITY : highBand[s][0];
+      highEdge[s] = highBand[s] == null ? Double.POSITIVE_INFINITY : highBand[s][1];
+    }
+    this.comoments = comoments;
+    this.limit = limit;
+  }
+
+  private EarlyTreatment(EarlyTreatment o) {
+    this.validity = o.validity;
+    this.mode = o.mode;
+    this.lowEdge = o.lowEdge;
+    this.lowTop = o.lowTop;
+    this.highBottom = o.highBottom;
+    this.highEdge = o.highEdge;
+    this.limit = o.limit;
+    this.comoments = o.comoments.emptyCopy();
+  }
+
+  /** Per column, what it assumed the outlier step does. */
+  NumericSteps.Action[] actions() {
+    return mode.clone();
+  }
+
+  /**
+   * Per column {lowEdge, lowTop, highBottom, highEdge}: values below lowEdge were taken as below
+   * the lower limit, values from lowTop to highBottom as within the limits, values above highEdge
+   * as above the upper limit (infinite edges: no limit on that side).
+   */
+  double[][] bands() {
+    double[][] b = new double[mode.length][];
+    for (int s = 0; s < mode.length; s++) {
+      b[s] = new double[] {lowEdge[s], lowTop[s], highBottom[s], highEdge[s]};
+    }
+    return b;
+  }
+
+  EarlyTreatment emptyCopy() {
+    return new EarlyTreatment(this);
+  }
+
+  /** One row of the columns' raw values (NaN for null). */
+  void add(double[] raw) {
+    int p = raw.length;
+    if (values == null) {
+      values = new double[p];
+      states = new byte[p];
+    }
+    for (int s = 0; s < p; s++) {
+      double v = validity[s].valid(raw[s]);
+      values[s] = v;
+      if (Double.isNaN(v)) {
+        states[s] = CoMoments.MISSING;
+      } else if (mode[s] == NumericSteps.Action.LEAVE) {
+        states[s] = CoMoments.VALUE;
+      } else if (v < lowEdge[s]) {
+        states[s] = mode[s] == NumericSteps.Action.CAP ? CoMoments.BELOW : CoMoments.MISSING;
+      } else if (v > highEdge[s]) {
+        states[s] = mode[s] == NumericSteps.Action.CAP ? CoMoments.ABOVE : CoMoments.MISSING;
+      } else if (v < lowTop[s] || v > highBottom[s]) {
+        keepAside(raw);
+        return;
+      } else {
+        states[s] = CoMoments.VALUE;
+      }
+    }
+    comoments.add(values, states);
+  }
+
+  private void keepAside(double[] raw) {
+    if (pending.size() < limit) {
+      pending.add(raw.clone());
+    } else {
+      overflowed = true;
+    }
+  }
+
+  EarlyTreatment merge(EarlyTreatment o) {
+    comoments.merge(o.comoments);
+    overflowed |= o.overflowed;
+    for (double[] row : o.pending) {
+      keepAside(row);
+    }
+    return this;
+  }
+}

@@ -1,0 +1,64 @@
+package dev.sluice.profile;
+
+import static org.assertj.core.api.Assertions.assertThat;
+
+import dev.sluice.stats.CoMoments;
+import dev.sluice.stats.NumericSteps;
+import org.junit.jupiter.api.Test;
+
+/**
+ * Pass 1's share of pass 2 places each row by its values' bands. Not an outside reference: the
+ * co-moments it keeps, with the limits filled in later, must equal those of the rows treated
+ * directly once the limits are known (the definition of the treatment).
+ */
+class EarlyTreatmentTest {
+  private static final NumericSteps.Action CAP = NumericSteps.Action.CAP;
+  private static final NumericSteps.Action REMOVE = NumericSteps.Action.REMOVE;
+
+  @Test
+  void rowsBeyondTheBandsEnterAsConstantsAndRowsInsideAreKeptAside() {
+    NumericSteps v = NumericSteps.validity(null, null);
+    EarlyTreatment t = new EarlyTreatment(new NumericSteps[] {v, v}, new NumericSteps.Action[] {CAP, REMOVE},
+        new double[][] {{-10, -8}, {-10, -8}}, new double[][] {{8, 10}, {8, 10}},
+        new CoMoments(new double[] {0, 0}), 5);
+    double[][] rows = {{-20, 1}, {0, 30}, {1, 2}, {-9, 0}, {25, -3}, {Double.NaN, 4}, {3, 9.5}};
+    for (double[] r : rows) {
+      t.add(r);
+    }
+    assertThat(t.pending).hasSize(2);
+    assertThat(t.overflowed).isFalse();
+    // Limits -9.5 and 9 as the plan would set them, inside the bands.
+    NumericSteps cap = new NumericSteps(Double.NEGATIVE_INFINITY, Double.POSITIVE_INFINITY, CAP, -9.5, 9);
+    NumericSteps remove = new NumericSteps(Double.NEGATIVE_INFINITY, Double.POSITIVE_INFINITY, REMOVE, -9.5, 9);
+    CoMoments direct = new CoMoments(new double[] {0, 0});
+    for (double[] r : rows) {
+      direct.add(new double[] {cap.treated(r[0]), remove.treated(r[1])});
+    }
+    CoMoments early = t.comoments;
+    for (double[] r : t.pending) {
+      early.add(new double[] {cap.treated(r[0]), remove.treated(r[1])});
+    }
+    double[][] constants = {{1.5, -9.5, 9}, {0.25, Double.NaN, Double.NaN}};
+    double[][] fills = {{1.5, Double.NaN, Double.NaN}, {0.25, Double.NaN, Double.NaN}};
+    double[][] a = early.covariance(constants);
+    double[][] b = direct.covariance(fills);
+    for (int i = 0; i < 2; i++) {
+      for (int j = 0; j < 2; j++) {
+        assertThat(a[i][j]).isCloseTo(b[i][j], org.assertj.core.api.Assertions.within(1e-12));
+      }
+    }
+  }
+
+  @Test
+  void moreRowsInsideTheBandsThanTheLimitGiveUp() {
+    NumericSteps v = NumericSteps.validity(null, null);
+    EarlyTreatment t = new EarlyTreatment(new NumericSteps[] {v}, new NumericSteps.Action[] {CAP},
+        new double[][] {{-10, -8}}, new double[][] {{8, 10}}, new CoMoments(new double[] {0}), 2);
+    EarlyTreatment other = t.emptyCopy();
+    t.add(new double[] {9});
+    other.add(new double[] {-9});
+    other.add(new double[] {8.5});
+    assertThat(t.merge(other).overflowed).isTrue();
+    assertThat(t.pending).hasSize(2);
+  }
+}
