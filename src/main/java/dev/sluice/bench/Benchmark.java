@@ -31,22 +31,27 @@ import org.apache.spark.sql.SparkSession;
  * writes them as JSON.
  *
  * <pre>
- * Benchmark [--rows N] [--columns P] [--reps R] [--data DIR] [--out FILE] [--quick | --growth]
+ * Benchmark [--rows N] [--columns P] [--reps R] [--data DIR] [--out FILE] [--skip-peer]
+ *           [--quick | --growth]
  * </pre>
  */
 public final class Benchmark {
   private Benchmark() {}
 
-  record Options(long rows, int columns, int reps, Path data, Path out, boolean quick, boolean growth) {
+  record Options(long rows, int columns, int reps, Path data, Path out, boolean quick, boolean growth,
+      boolean skipPeer) {
     static Options parse(String[] args) {
       Map<String, String> m = new LinkedHashMap<>();
       boolean quick = false;
       boolean growth = false;
+      boolean skipPeer = false;
       for (int i = 0; i < args.length; i++) {
         if (args[i].equals("--quick")) {
           quick = true;
         } else if (args[i].equals("--growth")) {
           growth = true;
+        } else if (args[i].equals("--skip-peer")) {
+          skipPeer = true;
         } else if (i + 1 < args.length) {
           m.put(args[i], args[++i]);
         } else {
@@ -59,7 +64,7 @@ public final class Benchmark {
       int reps = Integer.parseInt(m.getOrDefault("--reps", quick ? "1" : "3"));
       Path data = Path.of(m.getOrDefault("--data", "target/bench-data"));
       Path out = Path.of(m.getOrDefault("--out", "target/bench/results.json"));
-      return new Options(rows, cols, reps, data, out, quick, growth);
+      return new Options(rows, cols, reps, data, out, quick, growth, skipPeer);
     }
   }
 
@@ -80,15 +85,19 @@ public final class Benchmark {
     Path work = o.out().getParent().resolve("work");
     Map<String, List<Double>> times = new LinkedHashMap<>();
     for (String name : List.of("scan", "copy", "peer", "survey", "run")) {
-      times.put(name, new ArrayList<>());
+      if (!(o.skipPeer() && name.equals("peer"))) {
+        times.put(name, new ArrayList<>());
+      }
     }
     Dataset<Row> input = spark.read().parquet(table.toString());
     List<String> numeric = numericColumns(input);
     for (int rep = 0; rep < o.reps(); rep++) {
       times.get("scan").add(time(() -> scan(input, numeric)));
       times.get("copy").add(time(() -> input.write().mode(SaveMode.Overwrite).parquet(work.resolve("copy").toString())));
-      times.get("peer").add(time(() -> PeerPipeline.run(spark.read().parquet(table.toString()), numeric,
-          work.resolve("peer").toString())));
+      if (!o.skipPeer()) {
+        times.get("peer").add(time(() -> PeerPipeline.run(spark.read().parquet(table.toString()),
+            numeric, work.resolve("peer").toString())));
+      }
       times.get("survey").add(time(() -> sluice("survey", table, work.resolve("survey"))));
       times.get("run").add(time(() -> sluice("run", table, work.resolve("run"))));
       System.out.println("bench: repetition " + (rep + 1) + " of " + o.reps() + ": " + last(times));
@@ -200,7 +209,9 @@ public final class Benchmark {
     Map<String, Double> ratios = new LinkedHashMap<>();
     ratios.put("run_over_copy", medians.get("run") / medians.get("copy"));
     ratios.put("survey_over_scan", medians.get("survey") / medians.get("scan"));
-    ratios.put("peer_over_run", medians.get("peer") / medians.get("run"));
+    if (medians.containsKey("peer")) {
+      ratios.put("peer_over_run", medians.get("peer") / medians.get("run"));
+    }
     r.put("ratios", ratios);
     r.put("largest_fence_quartile_rank_error", rankError);
     r.put("seconds", times);

@@ -47,7 +47,7 @@ final class EarlySetup {
 
   /** The setup, or null when pass 1 cannot take on pass 2's work for this table and settings. */
   static EarlySetup of(Settings settings, ProfileLayout layout, NumericSteps[] validity,
-      double[][] pilot, long rows, int[] sampled, int perWindow) {
+      double[][] sortedUsable, int pilotRows, long rows, int[] sampled, int perWindow) {
     int[] measured = layout.measuredAt;
     List<List<double[]>> cover = new ArrayList<>();
     double[][][] inner = new double[measured.length][][];
@@ -61,12 +61,12 @@ final class EarlySetup {
       }
       ColumnSettings cs = settings.column(layout.names[measured[j]]);
       OutlierMethod method = cs.outliers().method();
-      double[] usable = RankSearch.sorted(Profiler.usable(pilot[j], validity[j]));
+      double[] usable = sortedUsable[j];
       boolean methodOk = method == OutlierMethod.IQR || method == OutlierMethod.NONE;
       if (!methodOk || cs.missing().strategy() == ImputeStrategy.MODE || usable.length < MIN_PILOT) {
         return null;
       }
-      long expected = Profiler.expected(rows, usable.length, pilot[j].length);
+      long expected = Profiler.expected(rows, usable.length, pilotRows);
       // The tightest brackets the pilot allows (no widening for memory): narrow bands.
       double[] q1 = RankSearch.bracket(usable, 0.25, expected, 1);
       double[] q3 = RankSearch.bracket(usable, 0.75, expected, 1);

@@ -70,10 +70,14 @@ public final class Profiler {
       validity[j] = NumericSteps.validity(boxed(cs.validMin()), boxed(cs.validMax()));
     }
     int[] sampled = sampledColumns(layout, measured, settings);
+    double[][] usable = new double[measured.length][];
+    for (int j = 0; j < measured.length; j++) {
+      usable[j] = RankSearch.sorted(usable(pilot[j], validity[j]));
+    }
     EarlySetup early = pilot.length > 0 && pilot[0].length > 0
-        ? EarlySetup.of(settings, layout, validity, pilot, rows, sampled, perWindow) : null;
+        ? EarlySetup.of(settings, layout, validity, usable, pilot[0].length, rows, sampled, perWindow) : null;
     List<RankSearch> searches = new ArrayList<>();
-    OrderWindows[] first = firstWindows(perWindow, validity, pilot, rows, searches, early);
+    OrderWindows[] first = firstWindows(perWindow, usable, pilot, rows, searches, early);
     int sampleRows = Math.min(settings.collinearity().spearmanRows(),
         Math.max(1_000, VALUE_BUDGET / Math.max(1, sampled.length)));
     ProfileAccumulator proto = new ProfileAccumulator(layout, validity, first, sampled, sampleRows,
@@ -110,11 +114,11 @@ public final class Profiler {
   }
 
   /** Each measured column's quartile search, and the windows of its first pass. */
-  private static OrderWindows[] firstWindows(int perWindow, NumericSteps[] validity,
+  private static OrderWindows[] firstWindows(int perWindow, double[][] sortedUsable,
       double[][] pilot, long rows, List<RankSearch> searches, EarlySetup early) {
-    OrderWindows[] first = new OrderWindows[validity.length];
-    for (int j = 0; j < validity.length; j++) {
-      double[] usable = usable(pilot[j], validity[j]);
+    OrderWindows[] first = new OrderWindows[sortedUsable.length];
+    for (int j = 0; j < sortedUsable.length; j++) {
+      double[] usable = sortedUsable[j];
       RankSearch search = new RankSearch(QUARTILES, perWindow);
       first[j] = search.firstPlan(usable, expected(rows, usable.length, pilot[j].length),
           early == null ? List.of() : early.cover.get(j));

@@ -348,7 +348,8 @@ public final class OrderWindows implements Serializable {
       sorted = new boolean[lo.length];
     }
     if (!sorted[w]) {
-      Arrays.sort(held[w], 0, heldSize[w]);
+      // Read on the driver after the pass, when the executors' cores are idle.
+      Arrays.parallelSort(held[w], 0, heldSize[w]);
       sorted[w] = true;
     }
     return held[w][i];

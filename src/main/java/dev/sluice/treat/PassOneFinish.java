@@ -82,6 +82,8 @@ final class PassOneFinish {
       return cannot("pass 1 did not gather co-moments");
     }
     Optional<CoMoments> comoments = comoments(profile, share, outliers, settings, names);
+    comoments.ifPresent(m -> LOG.info("Pass 1 gave the treated statistics; {} rows near a limit were"
+        + " kept aside and added now", share.pending().size()));
     return comoments.map(m -> new TreatedStats(stats, List.copyOf(names), m));
   }
 
