@@ -27,7 +27,10 @@ import java.util.List;
  * fence can fall. Pass 1's windows cover them, so that counts beyond any fence inside them are
  * exact; the values between the inner bands are surely left as they are. The brackets here are
  * the pilot's tightest (six standard errors of a sample quantile), and the bands must be expected
- * to hold no more than half a window's budget of values, so the extra windows stay small.
+ * to hold no more than half a window's budget of values, so the extra windows stay small. The
+ * rows the pilot shows with a value inside an inner band, scaled to the table, must be expected
+ * to fill at most half of what may be kept aside; on wide tables most rows have some value near
+ * a fence, and pass 2 is then cheaper than keeping them.
  */
 final class EarlySetup {
   /** Pilot values a column needs for its brackets to be trusted with the bands. */
@@ -47,7 +50,8 @@ final class EarlySetup {
 
   /** The setup, or null when pass 1 cannot take on pass 2's work for this table and settings. */
   static EarlySetup of(Settings settings, ProfileLayout layout, NumericSteps[] validity,
-      double[][] sortedUsable, int pilotRows, long rows, int[] sampled, int perWindow) {
+      double[][] pilot, double[][] sortedUsable, long rows, int[] sampled, int perWindow) {
+    int pilotRows = pilot[0].length;
     int[] measured = layout.measuredAt;
     List<List<double[]>> cover = new ArrayList<>();
     double[][][] inner = new double[measured.length][][];
@@ -101,8 +105,30 @@ final class EarlySetup {
       centre[j] = usable[usable.length / 2];
       scale[j] = PowerScale.forMagnitude(Math.max(Math.abs(usable[0]), Math.abs(usable[usable.length - 1])));
     }
-    return new EarlySetup(cover, sampled.length >= 2
-        ? treatment(settings, layout, validity, sampled, inner, centre, scale) : null);
+    EarlyTreatment treatment = sampled.length >= 2
+        ? treatment(settings, layout, validity, sampled, inner, centre, scale) : null;
+    if (treatment != null && expectedAside(treatment, pilot, sampled, rows) > treatment.limit() / 2.0) {
+      // Too many rows would be kept aside (many columns, or wide bands): pass 1 would do the
+      // co-moments for nothing and pass 2 again.
+      return null;
+    }
+    return new EarlySetup(cover, treatment);
+  }
+
+  /** The rows the treatment is expected to keep aside, scaled up from the pilot's rows. */
+  static double expectedAside(EarlyTreatment treatment, double[][] pilot, int[] sampled, long rows) {
+    int m = pilot[0].length;
+    double[] raw = new double[sampled.length];
+    long aside = 0;
+    for (int r = 0; r < m; r++) {
+      for (int s = 0; s < sampled.length; s++) {
+        raw[s] = pilot[sampled[s]][r];
+      }
+      if (treatment.inBand(raw)) {
+        aside++;
+      }
+    }
+    return (aside + 1.0) * rows / m;
   }
 
   /**

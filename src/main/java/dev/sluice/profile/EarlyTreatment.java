@@ -120,6 +120,23 @@ final class EarlyTreatment implements Serializable {
     comoments.add(values, states);
   }
 
+  /** Whether {@link #add} would keep this row aside: one of its valid values is inside a band. */
+  boolean inBand(double[] raw) {
+    for (int s = 0; s < raw.length; s++) {
+      double v = validity[s].valid(raw[s]);
+      if (mode[s] != NumericSteps.Action.LEAVE && !Double.isNaN(v)
+          && v >= lowEdge[s] && v <= highEdge[s] && (v < lowTop[s] || v > highBottom[s])) {
+        return true;
+      }
+    }
+    return false;
+  }
+
+  /** Rows {@link #add} may keep aside before it gives up. */
+  int limit() {
+    return limit;
+  }
+
   private void keepAside(double[] raw) {
     if (pending.size() < limit) {
       pending.add(raw.clone());

@@ -75,7 +75,7 @@ public final class Profiler {
       usable[j] = RankSearch.sorted(usable(pilot[j], validity[j]));
     }
     EarlySetup early = pilot.length > 0 && pilot[0].length > 0
-        ? EarlySetup.of(settings, layout, validity, usable, pilot[0].length, rows, sampled, perWindow) : null;
+        ? EarlySetup.of(settings, layout, validity, pilot, usable, rows, sampled, perWindow) : null;
     List<RankSearch> searches = new ArrayList<>();
     OrderWindows[] first = firstWindows(perWindow, usable, pilot, rows, searches, early);
     int sampleRows = Math.min(settings.collinearity().spearmanRows(),

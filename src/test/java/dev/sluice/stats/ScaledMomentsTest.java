@@ -466,4 +466,45 @@ class ScaledMomentsTest {
   private static double maxAbs(double[] values) {
     return Arrays.stream(values).map(Math::abs).max().orElse(0.0);
   }
+
+  @Test
+  void blocksOfValuesKeepTheDigitsOfTrendsAndFarValues() {
+    // Reference: exact mean and variance in BigDecimal (MathContext.DECIMAL128) of the same
+    // values. Cases where summing each block relative to a shift could lose digits: a steady
+    // trend (each block far from the first value), and far values opening blocks.
+    Random random = new Random(29);
+    double[][] cases = new double[3][];
+    cases[0] = new double[100_000];
+    for (int i = 0; i < cases[0].length; i++) {
+      cases[0][i] = 1_000_000.0 + i * 0.25 + random.nextGaussian() * 1e-3;
+    }
+    cases[1] = new double[10_000];
+    for (int i = 0; i < cases[1].length; i++) {
+      cases[1][i] = i % 256 == 0 ? 1e9 * (1 + i % 3) : 5.0 + random.nextGaussian();
+    }
+    cases[2] = new double[1_000];
+    for (int i = 0; i < cases[2].length; i++) {
+      cases[2][i] = 1e-3 * random.nextGaussian() + 7.0;
+    }
+    for (double[] values : cases) {
+      ScaledMoments m = new ScaledMoments();
+      for (double v : values) {
+        m.add(v);
+      }
+      MathContext mc = MathContext.DECIMAL128;
+      BigDecimal sum = BigDecimal.ZERO;
+      for (double v : values) {
+        sum = sum.add(new BigDecimal(v), mc);
+      }
+      BigDecimal mean = sum.divide(BigDecimal.valueOf(values.length), mc);
+      BigDecimal ss = BigDecimal.ZERO;
+      for (double v : values) {
+        BigDecimal d = new BigDecimal(v).subtract(mean, mc);
+        ss = ss.add(d.multiply(d, mc), mc);
+      }
+      double sd = Math.sqrt(ss.divide(BigDecimal.valueOf(values.length - 1), mc).doubleValue());
+      assertThat(m.mean()).isCloseTo(mean.doubleValue(), within(1e-14 * Math.abs(mean.doubleValue())));
+      assertThat(m.stddev()).isCloseTo(sd, within(1e-12 * sd));
+    }
+  }
 }

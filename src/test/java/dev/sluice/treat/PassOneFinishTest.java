@@ -117,6 +117,29 @@ class PassOneFinishTest {
   }
 
   @Test
+  void wideTablesWhereMostRowsHaveAValueNearAFenceRunPassTwo(SparkSession spark) {
+    // Invented: 40 sensors of one rig, independent readings.
+    Random random = new Random(15);
+    List<String> names = new ArrayList<>();
+    for (int c = 0; c < 40; c++) {
+      names.add("sensor_" + c);
+    }
+    double[][] rows = new double[60_000][40];
+    for (double[] row : rows) {
+      for (int c = 0; c < 40; c++) {
+        row[c] = 20.0 + random.nextGaussian();
+      }
+    }
+    Dataset<Row> data = dev.sluice.testing.Fixtures.doubleTable(spark, names, rows);
+    Map<String, Role> roles = new LinkedHashMap<>();
+    names.forEach(n -> roles.put(n, Role.TREAT));
+    assertThat(Profiler.profile(data, settings(LARGE[0], LARGE[1]), roles).share()).isNull();
+    List<String> lines = new ArrayList<>();
+    Sluice.fit(data, settings(LARGE[0], LARGE[1]), List.of(), lines::add);
+    assertThat(lines).anyMatch(l -> l.startsWith("pass 2 of 3: statistics of the treated values"));
+  }
+
+  @Test
   void thePlanMustAgreeWithWhatPassOneAssumed() {
     double[] band = {-3.0, -2.0, 2.0, 3.0};
     OutlierPlan capAt = new OutlierPlan("iqr", "both", "cap", -2.5, 2.5, -2.5, 2.5, -5.0, 5.0, "");
