@@ -3,14 +3,16 @@
 # pipeline, in one Spark session (see docs/benchmarks.md for results and how to read them).
 #
 #   jobs/bench.sh [--rows N] [--columns P] [--reps R] [--data DIR] [--out FILE] [--skip-peer]
-#                 [--quick | --growth]
+#                 [--quick | --growth [--wide-columns W]]
 #
 # Defaults: 10,000,000 rows x 10 numeric + 2 categorical columns, 3 interleaved repetitions,
 # tables generated once under target/bench-data and reused, results in target/bench/results.json.
 # --quick: a 20,000-row table and one repetition, to check the harness (CI runs it; no timing
-# is asserted). --growth: `run` on N x P, 4N x P and N x 200 (default N = 1,000,000), for the
-# linearity and wide-table goals. --skip-peer leaves out the hand-written pipeline (about 2 minutes
-# a repetition), for quicker measurements of the other cases while working on them. BENCH_DRIVER_MEMORY sets the heap (default 2g, the memory goal).
+# is asserted). --growth: `run` on N x P, 4N x P and N x W (default N = 1,000,000, W = 200;
+# W = 0 leaves the wide table out), for the linearity and wide-table goals. --skip-peer leaves
+# out the hand-written pipeline (about 2 minutes a repetition), for quicker measurements of the
+# other cases while working on them. BENCH_DRIVER_MEMORY sets the heap (default 2g, the memory
+# goal).
 set -euo pipefail
 
 HERE="$(cd "$(dirname "${BASH_SOURCE[0]}")/.." && pwd)"

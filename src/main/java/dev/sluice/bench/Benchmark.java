@@ -32,14 +32,14 @@ import org.apache.spark.sql.SparkSession;
  *
  * <pre>
  * Benchmark [--rows N] [--columns P] [--reps R] [--data DIR] [--out FILE] [--skip-peer]
- *           [--quick | --growth]
+ *           [--quick | --growth [--wide-columns W]]
  * </pre>
  */
 public final class Benchmark {
   private Benchmark() {}
 
   record Options(long rows, int columns, int reps, Path data, Path out, boolean quick, boolean growth,
-      boolean skipPeer) {
+      boolean skipPeer, int wideColumns) {
     static Options parse(String[] args) {
       Map<String, String> m = new LinkedHashMap<>();
       boolean quick = false;
@@ -64,7 +64,8 @@ public final class Benchmark {
       int reps = Integer.parseInt(m.getOrDefault("--reps", quick ? "1" : "3"));
       Path data = Path.of(m.getOrDefault("--data", "target/bench-data"));
       Path out = Path.of(m.getOrDefault("--out", "target/bench/results.json"));
-      return new Options(rows, cols, reps, data, out, quick, growth, skipPeer);
+      int wide = Integer.parseInt(m.getOrDefault("--wide-columns", "200"));
+      return new Options(rows, cols, reps, data, out, quick, growth, skipPeer, wide);
     }
   }
 
@@ -121,13 +122,17 @@ public final class Benchmark {
 
   /**
    * How {@code run} grows: N rows x P columns against 4 N x P (goal: at most 4.4 x the time) and
-   * N x 200 (goal: at most 25 x), interleaved over the repetitions.
+   * N x W (W = 200 by default, goal: at most 25 x; 0 leaves it out), interleaved over the
+   * repetitions.
    */
   private static void growth(SparkSession spark, Options o) throws IOException {
     Map<String, Path> tables = new LinkedHashMap<>();
     tables.put("base", ensureTable(spark, o.rows(), o.columns(), o));
     tables.put("rows_x4", ensureTable(spark, 4 * o.rows(), o.columns(), o));
-    tables.put("cols_200", ensureTable(spark, o.rows(), 200, o));
+    String wide = "cols_" + o.wideColumns();
+    if (o.wideColumns() > 0) {
+      tables.put(wide, ensureTable(spark, o.rows(), o.wideColumns(), o));
+    }
     Path work = o.out().getParent().resolve("work");
     Map<String, List<Double>> times = new LinkedHashMap<>();
     tables.keySet().forEach(k -> times.put(k, new ArrayList<>()));
@@ -139,7 +144,9 @@ public final class Benchmark {
     Map<String, Object> r = header(o, medians);
     Map<String, Double> ratios = new LinkedHashMap<>();
     ratios.put("rows_x4_over_base", medians.get("rows_x4") / medians.get("base"));
-    ratios.put("cols_200_over_base", medians.get("cols_200") / medians.get("base"));
+    if (o.wideColumns() > 0) {
+      ratios.put(wide + "_over_base", medians.get(wide) / medians.get("base"));
+    }
     r.put("ratios", ratios);
     r.put("seconds", times);
     Files.createDirectories(o.out().getParent());

@@ -1,13 +1,13 @@
 package dev.sluice.profile;
 
 import dev.sluice.config.ColumnSettings;
-import dev.sluice.config.ImputeStrategy;
 import dev.sluice.config.Direction;
+import dev.sluice.config.ImputeStrategy;
 import dev.sluice.config.OutlierAction;
 import dev.sluice.config.OutlierMethod;
-import dev.sluice.config.ScalingMethod;
 import dev.sluice.config.OutlierSettings;
 import dev.sluice.config.Role;
+import dev.sluice.config.ScalingMethod;
 import dev.sluice.config.Settings;
 import dev.sluice.stats.CoMoments;
 import dev.sluice.stats.Fences;
@@ -29,12 +29,17 @@ import java.util.List;
  * the pilot's tightest (six standard errors of a sample quantile), and the bands must be expected
  * to hold no more than half a window's budget of values, so the extra windows stay small. The
  * rows the pilot shows with a value inside an inner band, scaled to the table, must be expected
- * to fill at most half of what may be kept aside; on wide tables most rows have some value near
- * a fence, and pass 2 is then cheaper than keeping them.
+ * to fill at most 80 % of what may be kept aside; on wide tables most rows have some value near a
+ * fence, and on very long ones their number outgrows the budget: pass 2 runs then.
  */
 final class EarlySetup {
   /** Pilot values a column needs for its brackets to be trusted with the bands. */
   static final int MIN_PILOT = 100;
+  /**
+   * The share of the rows that may be kept aside that the pilot may predict: its count of such
+   * rows (thousands on a 200,000-row pilot) has a relative standard error of a few per cent.
+   */
+  static final double ASIDE_SHARE = 0.8;
   /** The share of one window's budget that a column's four bands may be expected to fill. */
   static final double BAND_SHARE = 0.5;
 
@@ -51,7 +56,6 @@ final class EarlySetup {
   /** The setup, or null when pass 1 cannot take on pass 2's work for this table and settings. */
   static EarlySetup of(Settings settings, ProfileLayout layout, NumericSteps[] validity,
       double[][] pilot, double[][] sortedUsable, long rows, int[] sampled, int perWindow) {
-    int pilotRows = pilot[0].length;
     int[] measured = layout.measuredAt;
     List<List<double[]>> cover = new ArrayList<>();
     double[][][] inner = new double[measured.length][][];
@@ -63,41 +67,12 @@ final class EarlySetup {
       if (role != Role.TREAT && role != Role.REQUIRED) {
         continue;
       }
-      ColumnSettings cs = settings.column(layout.names[measured[j]]);
-      OutlierMethod method = cs.outliers().method();
       double[] usable = sortedUsable[j];
-      boolean methodOk = method == OutlierMethod.IQR || method == OutlierMethod.NONE;
-      if (!methodOk || cs.missing().strategy() == ImputeStrategy.MODE || usable.length < MIN_PILOT) {
-        return null;
-      }
-      long expected = Profiler.expected(rows, usable.length, pilotRows);
-      // The tightest brackets the pilot allows (no widening for memory): narrow bands.
-      double[] q1 = RankSearch.bracket(usable, 0.25, expected, 1);
-      double[] q3 = RankSearch.bracket(usable, 0.75, expected, 1);
-      if (!Double.isFinite(q1[0]) || !Double.isFinite(q3[1]) || !(q1[1] < q3[0])) {
-        return null;
-      }
-      double[] in = Fences.tukeyRange(q1[0], q1[1], q3[0], q3[1], cs.outliers().iqrK());
-      double[] out = Fences.tukeyRange(q1[0], q1[1], q3[0], q3[1], cs.outliers().outerK());
-      for (double b : new double[] {in[0], in[3], out[0], out[3]}) {
-        if (!Double.isFinite(b)) {
-          return null;
-        }
-      }
-      List<double[]> bands = new ArrayList<>(List.of(new double[] {in[0], in[1]},
-          new double[] {in[2], in[3]}, new double[] {out[0], out[1]}, new double[] {out[2], out[3]}));
-      boolean removes = method == OutlierMethod.IQR
-          && (cs.outliers().action() == OutlierAction.SET_MISSING
-              || cs.outliers().action() == OutlierAction.QUARANTINE);
-      if (removes && (cs.missing().strategy() == ImputeStrategy.MEDIAN
-          || cs.scaling() == ScalingMethod.ROBUST)) {
-        List<double[]> shifted = afterRemoval(usable, in, cs.outliers().direction(), expected);
-        if (shifted == null) {
-          return null;
-        }
-        bands.addAll(shifted);
-      }
-      if (expectedHeld(usable, bands, expected) > BAND_SHARE * perWindow) {
+      ColumnSettings cs = settings.column(layout.names[measured[j]]);
+      long expected = Profiler.expected(rows, usable.length, pilot[0].length);
+      double[] in = innerBands(cs, usable, expected);
+      List<double[]> bands = in == null ? null : bands(cs, usable, in, expected);
+      if (bands == null || expectedHeld(usable, bands, expected) > BAND_SHARE * perWindow) {
         return null;
       }
       cover.set(j, bands);
@@ -107,12 +82,63 @@ final class EarlySetup {
     }
     EarlyTreatment treatment = sampled.length >= 2
         ? treatment(settings, layout, validity, sampled, inner, centre, scale) : null;
-    if (treatment != null && expectedAside(treatment, pilot, sampled, rows) > treatment.limit() / 2.0) {
+    if (treatment != null && expectedAside(treatment, pilot, sampled, rows) > ASIDE_SHARE * treatment.limit()) {
       // Too many rows would be kept aside (many columns, or wide bands): pass 1 would do the
       // co-moments for nothing and pass 2 again.
       return null;
     }
     return new EarlySetup(cover, treatment);
+  }
+
+  /** The bands of the column's inner fences, or null when its settings or pilot allow none. */
+  private static double[] innerBands(ColumnSettings cs, double[] usable, long expected) {
+    OutlierMethod method = cs.outliers().method();
+    boolean methodOk = method == OutlierMethod.IQR || method == OutlierMethod.NONE;
+    if (!methodOk || cs.missing().strategy() == ImputeStrategy.MODE || usable.length < MIN_PILOT) {
+      return null;
+    }
+    return fenceBands(usable, cs.outliers().iqrK(), expected);
+  }
+
+  /**
+   * {lowerMin, lowerMax, upperMin, upperMax}: where the Tukey fences with multiplier k can fall
+   * while the quartiles lie in the pilot's tightest brackets (no widening for memory); null when a
+   * bracket is unbounded or the IQR could be zero.
+   */
+  private static double[] fenceBands(double[] usable, double k, long expected) {
+    double[] q1 = RankSearch.bracket(usable, 0.25, expected, 1);
+    double[] q3 = RankSearch.bracket(usable, 0.75, expected, 1);
+    if (!Double.isFinite(q1[0]) || !Double.isFinite(q3[1]) || !(q1[1] < q3[0])) {
+      return null;
+    }
+    double[] r = Fences.tukeyRange(q1[0], q1[1], q3[0], q3[1], k);
+    return Double.isFinite(r[0]) && Double.isFinite(r[3]) ? r : null;
+  }
+
+  /**
+   * The ranges pass 1's windows must also cover: the inner and outer fence bands, and where the
+   * quartiles after removal can lie when the action removes values and they are needed; null when
+   * a range is unbounded.
+   */
+  private static List<double[]> bands(ColumnSettings cs, double[] usable, double[] in, long expected) {
+    double[] out = fenceBands(usable, cs.outliers().outerK(), expected);
+    if (out == null) {
+      return null;
+    }
+    List<double[]> bands = new ArrayList<>(List.of(new double[] {in[0], in[1]},
+        new double[] {in[2], in[3]}, new double[] {out[0], out[1]}, new double[] {out[2], out[3]}));
+    boolean removes = cs.outliers().method() == OutlierMethod.IQR
+        && (cs.outliers().action() == OutlierAction.SET_MISSING
+            || cs.outliers().action() == OutlierAction.QUARANTINE);
+    if (removes && (cs.missing().strategy() == ImputeStrategy.MEDIAN
+        || cs.scaling() == ScalingMethod.ROBUST)) {
+      List<double[]> shifted = afterRemoval(usable, in, cs.outliers().direction(), expected);
+      if (shifted == null) {
+        return null;
+      }
+      bands.addAll(shifted);
+    }
+    return bands;
   }
 
   /** The rows the treatment is expected to keep aside, scaled up from the pilot's rows. */
