@@ -50,9 +50,18 @@ public final class Sluice {
     long t0 = System.nanoTime();
     TableProfile profile = Profiler.profile(data, settings, roles);
     seconds.put("profile", elapsed(t0));
-    Map<String, OutlierPlan> outliers = Planner.outliers(profile, settings);
     long t1 = System.nanoTime();
-    Optional<TreatedStats> early = TreatedStatsPass.fromPassOne(profile, outliers, settings);
+    Map<String, OutlierPlan> outliers;
+    Optional<TreatedStats> early;
+    try {
+      outliers = Planner.outliers(profile, settings);
+      early = TreatedStatsPass.fromPassOne(profile, outliers, settings);
+    } finally {
+      // The rows pass 1 kept aside, in Spark's block store, are needed no longer.
+      if (profile.share() != null) {
+        profile.share().release();
+      }
+    }
     if (early.isPresent()) {
       progress.accept("pass 2 of 3 not needed: pass 1 also gave the statistics of the treated values");
     } else {

@@ -28,9 +28,9 @@ import java.util.List;
  * exact; the values between the inner bands are surely left as they are. The brackets here are
  * the pilot's tightest (six standard errors of a sample quantile), and the bands must be expected
  * to hold no more than half a window's budget of values, so the extra windows stay small. The
- * rows the pilot shows with a value inside an inner band, scaled to the table, must be expected
- * to fill at most 80 % of what may be kept aside; on wide tables most rows have some value near a
- * fence, and on very long ones their number outgrows the budget: pass 2 runs then.
+ * rows the pilot shows with a value inside an inner band, scaled to one partition, must be
+ * expected to fill at most 80 % of what a partition may keep aside; on wide tables most rows have
+ * some value near a fence, and pass 2 runs then.
  */
 final class EarlySetup {
   /** Pilot values a column needs for its brackets to be trusted with the bands. */
@@ -55,7 +55,8 @@ final class EarlySetup {
 
   /** The setup, or null when pass 1 cannot take on pass 2's work for this table and settings. */
   static EarlySetup of(Settings settings, ProfileLayout layout, NumericSteps[] validity,
-      double[][] pilot, double[][] sortedUsable, long rows, int[] sampled, int perWindow) {
+      double[][] pilot, double[][] sortedUsable, long rows, int partitions, int[] sampled,
+      int perWindow) {
     int[] measured = layout.measuredAt;
     List<List<double[]>> cover = new ArrayList<>();
     double[][][] inner = new double[measured.length][][];
@@ -82,7 +83,9 @@ final class EarlySetup {
     }
     EarlyTreatment treatment = sampled.length >= 2
         ? treatment(settings, layout, validity, sampled, inner, centre, scale) : null;
-    if (treatment != null && expectedAside(treatment, pilot, sampled, rows) > ASIDE_SHARE * treatment.limit()) {
+    double perPartition = treatment == null ? 0
+        : expectedAside(treatment, pilot, sampled, rows) / Math.max(1, partitions);
+    if (perPartition > ASIDE_SHARE * (treatment == null ? 0 : treatment.limit())) {
       // Too many rows would be kept aside (many columns, or wide bands): pass 1 would do the
       // co-moments for nothing and pass 2 again.
       return null;
@@ -236,7 +239,7 @@ final class EarlySetup {
         high[s] = o.direction().highSide() ? inner[j][1] : null;
       }
     }
-    // Rows kept aside hold at most half the pass's value budget.
+    // Rows one partition keeps aside hold at most half the pass's value budget.
     int limit = Math.max(1_000, settings.quantiles().maxHeldValues() / (2 * p));
     return new EarlyTreatment(v, mode, low, high, new CoMoments(c, f), limit);
   }

@@ -15,8 +15,9 @@ import java.util.List;
  * capped, it becomes the limit, a constant known only later, so it enters the co-moments in the
  * constant state BELOW (ABOVE likewise); removed, it is missing. A value between the bands is
  * surely kept as it is. A row with a value inside a band cannot be placed yet: its raw values are
- * kept aside, up to a limit, and added once the limits are known. Past that limit the attempt
- * fails and pass 2 runs as usual.
+ * kept aside by its partition, up to a limit per partition, and stored beside the partition's
+ * accumulator in Spark's block store ({@link KeptRows}); they are treated there once the limits
+ * are known. Past that limit the attempt fails and pass 2 runs as usual.
  */
 final class EarlyTreatment implements Serializable {
   private static final long serialVersionUID = 1L;
@@ -31,14 +32,18 @@ final class EarlyTreatment implements Serializable {
   private final int limit;
 
   final CoMoments comoments;
+  /** This partition's rows kept aside, until {@link #takeRows}. */
   final List<double[]> pending = new ArrayList<>();
+  /** Rows kept aside, over every part merged into this one. */
+  long aside;
+  /** Some partition had more rows to keep aside than its limit. */
   boolean overflowed;
   private transient double[] values;
   private transient byte[] states;
 
   /**
    * @param lowBand per column {low, high} of the lower limit's band, or null for no lower limit
-   * @param limit rows with a value inside a band kept aside, at most
+   * @param limit rows with a value inside a band kept aside by one partition, at most
    */
   EarlyTreatment(NumericSteps[] validity, NumericSteps.Action[] mode, double[][] lowBand, double[][] highBand,
       CoMoments comoments, int limit) {
@@ -140,17 +145,47 @@ final class EarlyTreatment implements Serializable {
   private void keepAside(double[] raw) {
     if (pending.size() < limit) {
       pending.add(raw.clone());
+      aside++;
     } else {
       overflowed = true;
     }
   }
 
+  /**
+   * Adds the other part's co-moments and counts. Rows kept aside stay with the partition that
+   * kept them ({@link #takeRows}), so that they never travel to the driver.
+   */
   EarlyTreatment merge(EarlyTreatment o) {
     comoments.merge(o.comoments);
     overflowed |= o.overflowed;
-    for (double[] row : o.pending) {
-      keepAside(row);
-    }
+    aside += o.aside;
     return this;
+  }
+
+  /** This partition's rows kept aside, removed from this object: one block, row after row. */
+  Rows takeRows() {
+    int p = validity.length;
+    double[] flat = new double[pending.size() * p];
+    for (int r = 0; r < pending.size(); r++) {
+      System.arraycopy(pending.get(r), 0, flat, r * p, p);
+    }
+    pending.clear();
+    return new Rows(p, flat);
+  }
+
+  /** Raw values of rows kept aside, {@code p} per row. */
+  record Rows(int p, double[] values) implements Serializable {
+    /** Co-moments of these rows after {@code steps}, in an accumulator like {@code empty}. */
+    CoMoments treated(NumericSteps[] steps, CoMoments empty) {
+      CoMoments m = empty.emptyCopy();
+      double[] row = new double[p];
+      for (int at = 0; at < values.length; at += p) {
+        for (int s = 0; s < p; s++) {
+          row[s] = steps[s].treated(values[at + s]);
+        }
+        m.add(row);
+      }
+      return m;
+    }
   }
 }

@@ -23,7 +23,8 @@ import java.util.List;
  * @param bands per column of {@code comoments}, {lowEdge, lowTop, highBottom, highEdge}: values
  *     below lowEdge were taken as beyond the lower limit, from lowTop to highBottom as within the
  *     limits, above highEdge as beyond the upper limit; the finish checks the plan agrees
- * @param pending raw values of {@code corrColumns} for the rows that had a value inside a band
+ * @param aside the rows that had a value inside a band, kept where pass 1 read them, or null when
+ *     the correlation analysis does not run; {@link #release} frees them
  * @param overflowed more such rows than could be kept: pass 2 must run
  */
 public record PassOneShare(
@@ -34,5 +35,25 @@ public record PassOneShare(
     CoMoments comoments,
     NumericSteps.Action[] actions,
     double[][] bands,
-    List<double[]> pending,
-    boolean overflowed) {}
+    RowsAside aside,
+    boolean overflowed) {
+
+  /** Rows kept aside by pass 1, with the raw values of {@code corrColumns}. */
+  public interface RowsAside {
+    /** How many rows. */
+    long count();
+
+    /** Their co-moments after {@code steps} (one per column), in an accumulator like {@code empty}. */
+    CoMoments treated(NumericSteps[] steps, CoMoments empty);
+
+    /** Frees what holds them; they cannot be read afterwards. */
+    void release();
+  }
+
+  /** Frees the rows kept aside, if any. */
+  public void release() {
+    if (aside != null) {
+      aside.release();
+    }
+  }
+}

@@ -75,7 +75,8 @@ public final class Profiler {
       usable[j] = RankSearch.sorted(usable(pilot[j], validity[j]));
     }
     EarlySetup early = pilot.length > 0 && pilot[0].length > 0
-        ? EarlySetup.of(settings, layout, validity, pilot, usable, rows, sampled, perWindow) : null;
+        ? EarlySetup.of(settings, layout, validity, pilot, usable, rows,
+            numeric.getNumPartitions(), sampled, perWindow) : null;
     List<RankSearch> searches = new ArrayList<>();
     OrderWindows[] first = firstWindows(perWindow, usable, pilot, rows, searches, early);
     int sampleRows = Math.min(settings.collinearity().spearmanRows(),
@@ -84,9 +85,13 @@ public final class Profiler {
         ProfileAccumulator.sampleCut(sampleRows, rows), early == null ? null : early.treatment);
     Optional<JavaRDD<ColumnarBatch>> batches = columnar && layout.columnar()
         ? Batches.of(data.select(layout.raw().toArray(new Column[0]))) : Optional.empty();
-    ProfileAccumulator acc = batches.isPresent()
-        ? RowScan.foldBatches(batches.get(), proto::emptyCopy, ProfileAccumulator::addBatch)
-        : RowScan.fold(RowScan.rows(data, layout.projection()), proto::emptyCopy);
+    JavaRDD<ProfileAccumulator> parts = batches.isPresent()
+        ? RowScan.batchParts(batches.get(), proto::emptyCopy, ProfileAccumulator::addBatch)
+        : RowScan.parts(RowScan.rows(data, layout.projection()), proto::emptyCopy);
+    List<KeptRows> kept = new ArrayList<>();
+    ProfileAccumulator acc = proto.early != null
+        ? KeptRows.run(parts, proto::emptyCopy, kept)
+        : RowScan.merged(parts, proto::emptyCopy);
     List<SearchPass.Target> targets = new ArrayList<>();
     for (int j = 0; j < measured.length; j++) {
       searches.get(j).absorb(acc.windows[j]);
@@ -108,7 +113,7 @@ public final class Profiler {
         acc.windows, acc.moments, List.copyOf(sampleNames),
         acc.early == null ? null : acc.early.comoments,
         acc.early == null ? null : acc.early.actions(), acc.early == null ? null : acc.early.bands(),
-        acc.early == null ? List.of() : acc.early.pending, acc.early != null && acc.early.overflowed);
+        kept.isEmpty() ? null : kept.get(0), acc.early != null && acc.early.overflowed);
     return new TableProfile(acc.rows, columns(data.sparkSession(), layout, acc, quartiles, mad),
         sampleNames, acc.sample, pilotByName, quartiles, share);
   }

@@ -54,16 +54,18 @@ public final class RowScan {
 
   /** One pass: every row of {@code rows} added to accumulators made by {@code empty}, merged. */
   public static <A extends Accumulator<A>> A fold(JavaRDD<InternalRow> rows, Empty<A> empty) {
-    if (rows.getNumPartitions() == 0) {
-      return empty.make();
-    }
+    return merged(parts(rows, empty), empty);
+  }
+
+  /** Each partition's accumulator over its rows, not merged (nothing runs until it is used). */
+  static <A extends Accumulator<A>> JavaRDD<A> parts(JavaRDD<InternalRow> rows, Empty<A> empty) {
     return rows.mapPartitions((Iterator<InternalRow> it) -> {
       A acc = empty.make();
       while (it.hasNext()) {
         acc.add(it.next());
       }
       return List.of(acc).iterator();
-    }).treeReduce((a, b) -> a.merge(b), depth(rows));
+    });
   }
 
   /** Adds one columnar batch to an accumulator; sent to every task. */
@@ -77,16 +79,27 @@ public final class RowScan {
    */
   public static <A extends Accumulator<A>> A foldBatches(
       JavaRDD<ColumnarBatch> batches, Empty<A> empty, BatchAdder<A> adder) {
-    if (batches.getNumPartitions() == 0) {
-      return empty.make();
-    }
+    return merged(batchParts(batches, empty, adder), empty);
+  }
+
+  /** Each partition's accumulator over its batches, not merged. */
+  static <A extends Accumulator<A>> JavaRDD<A> batchParts(
+      JavaRDD<ColumnarBatch> batches, Empty<A> empty, BatchAdder<A> adder) {
     return batches.mapPartitions((Iterator<ColumnarBatch> it) -> {
       A acc = empty.make();
       while (it.hasNext()) {
         adder.add(acc, it.next());
       }
       return List.of(acc).iterator();
-    }).treeReduce((a, b) -> a.merge(b), depth(batches));
+    });
+  }
+
+  /** The partitions' accumulators merged in a tree on the way to the driver (empty: none). */
+  static <A extends Accumulator<A>> A merged(JavaRDD<A> parts, Empty<A> empty) {
+    if (parts.getNumPartitions() == 0) {
+      return empty.make();
+    }
+    return parts.treeReduce((a, b) -> a.merge(b), depth(parts));
   }
 
   private static int depth(JavaRDD<?> rows) {

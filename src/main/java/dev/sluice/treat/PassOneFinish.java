@@ -83,7 +83,7 @@ final class PassOneFinish {
     }
     Optional<CoMoments> comoments = comoments(profile, share, outliers, settings, names);
     comoments.ifPresent(m -> LOG.info("Pass 1 gave the treated statistics; {} rows near a limit were"
-        + " kept aside and added now", share.pending().size()));
+        + " kept aside and added now", share.aside().count()));
     return comoments.map(m -> new TreatedStats(stats, List.copyOf(names), m));
   }
 
@@ -215,8 +215,9 @@ final class PassOneFinish {
   }
 
   /**
-   * The co-moments of the analysed columns: pass 1's, with the rows it held back treated now;
-   * empty when a column's scale for very large values turned out different from the pilot's.
+   * The co-moments of the analysed columns: pass 1's, with the rows it kept aside treated now
+   * (where pass 1 left them); empty when the plan's outlier step is not what pass 1 assumed or a
+   * column's scale for very large values turned out different from the pilot's.
    */
   private static Optional<CoMoments> comoments(TableProfile profile, PassOneShare share,
       Map<String, OutlierPlan> outliers, Settings settings, List<String> names) {
@@ -232,13 +233,6 @@ final class PassOneFinish {
         return cannot("the outlier step of column " + all.get(s) + " is not what pass 1 assumed");
       }
     }
-    double[] values = new double[all.size()];
-    for (double[] raw : share.pending()) {
-      for (int s = 0; s < raw.length; s++) {
-        values[s] = steps[s].treated(raw[s]);
-      }
-      m.add(values);
-    }
     int[] keep = new int[names.size()];
     for (int i = 0; i < keep.length; i++) {
       keep[i] = all.indexOf(names.get(i));
@@ -247,6 +241,8 @@ final class PassOneFinish {
         return cannot("column " + names.get(i) + " holds larger values than its pilot");
       }
     }
+    // One small job over the rows pass 1 kept aside, where they are.
+    m.merge(share.aside().treated(steps, share.comoments().emptyCopy()));
     return Optional.of(m.subset(keep));
   }
 

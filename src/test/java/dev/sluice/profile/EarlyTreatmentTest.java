@@ -26,6 +26,7 @@ class EarlyTreatmentTest {
       t.add(r);
     }
     assertThat(t.pending).hasSize(2);
+    assertThat(t.aside).isEqualTo(2);
     assertThat(t.overflowed).isFalse();
     // Limits -9.5 and 9 as the plan would set them, inside the bands.
     NumericSteps cap = new NumericSteps(Double.NEGATIVE_INFINITY, Double.POSITIVE_INFINITY, CAP, -9.5, 9);
@@ -34,10 +35,10 @@ class EarlyTreatmentTest {
     for (double[] r : rows) {
       direct.add(new double[] {cap.treated(r[0]), remove.treated(r[1])});
     }
-    CoMoments early = t.comoments;
-    for (double[] r : t.pending) {
-      early.add(new double[] {cap.treated(r[0]), remove.treated(r[1])});
-    }
+    EarlyTreatment.Rows aside = t.takeRows();
+    assertThat(t.pending).isEmpty();
+    CoMoments early = t.comoments.merge(
+        aside.treated(new NumericSteps[] {cap, remove}, t.comoments.emptyCopy()));
     double[][] constants = {{1.5, -9.5, 9}, {0.25, Double.NaN, Double.NaN}};
     double[][] fills = {{1.5, Double.NaN, Double.NaN}, {0.25, Double.NaN, Double.NaN}};
     double[][] a = early.covariance(constants);
@@ -50,7 +51,7 @@ class EarlyTreatmentTest {
   }
 
   @Test
-  void moreRowsInsideTheBandsThanTheLimitGiveUp() {
+  void aPartitionWithMoreRowsInsideTheBandsThanItsLimitGivesUp() {
     NumericSteps v = NumericSteps.validity(null, null);
     EarlyTreatment t = new EarlyTreatment(new NumericSteps[] {v}, new NumericSteps.Action[] {CAP},
         new double[][] {{-10, -8}}, new double[][] {{8, 10}}, new CoMoments(new double[] {0}), 2);
@@ -58,7 +59,14 @@ class EarlyTreatmentTest {
     t.add(new double[] {9});
     other.add(new double[] {-9});
     other.add(new double[] {8.5});
-    assertThat(t.merge(other).overflowed).isTrue();
-    assertThat(t.pending).hasSize(2);
+    // Rows stay with their partition: merging counts them, and each partition has its own limit.
+    assertThat(t.merge(other).overflowed).isFalse();
+    assertThat(t.aside).isEqualTo(3);
+    assertThat(t.pending).hasSize(1);
+    EarlyTreatment third = t.emptyCopy();
+    for (double x : new double[] {9, 9.5, -9.5}) {
+      third.add(new double[] {x});
+    }
+    assertThat(t.merge(third).overflowed).isTrue();
   }
 }

@@ -1,0 +1,63 @@
+package dev.sluice.profile;
+
+import dev.sluice.stats.CoMoments;
+import dev.sluice.stats.NumericSteps;
+import java.util.ArrayList;
+import java.util.List;
+import org.apache.spark.api.java.JavaRDD;
+import org.apache.spark.storage.StorageLevel;
+
+/**
+ * Pass 1's partitions with the rows each kept aside ({@link EarlyTreatment}), persisted in Spark's
+ * block store (serialized, spilling to disk) so that those rows never travel to the driver: the
+ * accumulators are merged as usual, and once the outlier limits are known a small job treats the
+ * kept rows where they are and merges only their co-moments.
+ */
+final class KeptRows implements PassOneShare.RowsAside {
+  /** Per partition: its accumulator, then an {@link EarlyTreatment.Rows} block. */
+  private final JavaRDD<Object> parts;
+  private final long count;
+
+  private KeptRows(JavaRDD<Object> parts, long count) {
+    this.parts = parts;
+    this.count = count;
+  }
+
+  /**
+   * Runs pass 1 over {@code accumulators} (not yet computed), keeping each partition's rows aside
+   * in the block store; returns the merged accumulator and, through {@code kept}, the rows.
+   */
+  static ProfileAccumulator run(JavaRDD<ProfileAccumulator> accumulators, RowScan.Empty<ProfileAccumulator> empty,
+      List<KeptRows> kept) {
+    JavaRDD<Object> parts = accumulators.flatMap(a -> {
+      List<Object> out = new ArrayList<>(2);
+      out.add(a);
+      out.add(a.early.takeRows());
+      return out.iterator();
+    }).persist(StorageLevel.MEMORY_AND_DISK_SER());
+    ProfileAccumulator merged = RowScan.merged(
+        parts.filter(o -> o instanceof ProfileAccumulator).map(o -> (ProfileAccumulator) o), empty);
+    kept.add(new KeptRows(parts, merged.early.aside));
+    return merged;
+  }
+
+  @Override
+  public long count() {
+    return count;
+  }
+
+  @Override
+  public CoMoments treated(NumericSteps[] steps, CoMoments empty) {
+    if (count == 0) {
+      return empty.emptyCopy();
+    }
+    return parts.filter(o -> o instanceof EarlyTreatment.Rows)
+        .map(o -> ((EarlyTreatment.Rows) o).treated(steps, empty))
+        .treeReduce(CoMoments::merge);
+  }
+
+  @Override
+  public void release() {
+    parts.unpersist(false);
+  }
+}
