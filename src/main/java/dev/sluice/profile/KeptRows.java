@@ -9,9 +9,11 @@ import org.apache.spark.storage.StorageLevel;
 
 /**
  * Pass 1's partitions with the rows each kept aside ({@link EarlyTreatment}), persisted in Spark's
- * block store (serialized, spilling to disk) so that those rows never travel to the driver: the
+ * block store (as objects, spilling to disk) so that those rows never travel to the driver: the
  * accumulators are merged as usual, and once the outlier limits are known a small job treats the
- * kept rows where they are and merges only their co-moments.
+ * kept rows where they are and merges only their co-moments. Stored as objects, not serialized:
+ * the accumulators are then serialized once, as task results, not twice. (Merging may change a
+ * stored accumulator; only the row blocks are read again, and they are never changed.)
  */
 final class KeptRows implements PassOneShare.RowsAside {
   /** Per partition: its accumulator, then an {@link EarlyTreatment.Rows} block. */
@@ -34,7 +36,7 @@ final class KeptRows implements PassOneShare.RowsAside {
       out.add(a);
       out.add(a.early.takeRows());
       return out.iterator();
-    }).persist(StorageLevel.MEMORY_AND_DISK_SER());
+    }).persist(StorageLevel.MEMORY_AND_DISK());
     ProfileAccumulator merged = RowScan.merged(
         parts.filter(o -> o instanceof ProfileAccumulator).map(o -> (ProfileAccumulator) o), empty);
     kept.add(new KeptRows(parts, merged.early.aside));
