@@ -279,26 +279,67 @@ public final class CoMoments implements Serializable {
       return;
     }
     int n = pending;
-    for (int j = 0; j < p; j++) {
-      double[] a = block[j];
-      for (int k = j; k < p; k++) {
+    int j = 0;
+    // Two columns against two at a time: four sums from four loads per row, where one pair at a
+    // time needs two loads per product.
+    for (; j + 1 < p; j += 2) {
+      double[] a0 = block[j];
+      double[] a1 = block[j + 1];
+      double d00 = 0;
+      double d01 = 0;
+      double d11 = 0;
+      for (int r = 0; r < n; r++) {
+        double x0 = a0[r];
+        double x1 = a1[r];
+        d00 += x0 * x0;
+        d01 += x0 * x1;
+        d11 += x1 * x1;
+      }
+      gram[j * p + j] += d00;
+      gram[j * p + j + 1] += d01;
+      gram[(j + 1) * p + j + 1] += d11;
+      int k = j + 2;
+      for (; k + 1 < p; k += 2) {
+        double[] b0 = block[k];
+        double[] b1 = block[k + 1];
+        double s00 = 0;
+        double s01 = 0;
+        double s10 = 0;
+        double s11 = 0;
+        for (int r = 0; r < n; r++) {
+          double x0 = a0[r];
+          double x1 = a1[r];
+          double y0 = b0[r];
+          double y1 = b1[r];
+          s00 += x0 * y0;
+          s01 += x0 * y1;
+          s10 += x1 * y0;
+          s11 += x1 * y1;
+        }
+        gram[j * p + k] += s00;
+        gram[j * p + k + 1] += s01;
+        gram[(j + 1) * p + k] += s10;
+        gram[(j + 1) * p + k + 1] += s11;
+      }
+      if (k < p) {
         double[] b = block[k];
         double s0 = 0;
         double s1 = 0;
-        double s2 = 0;
-        double s3 = 0;
-        int r = 0;
-        for (; r + 3 < n; r += 4) {
-          s0 += a[r] * b[r];
-          s1 += a[r + 1] * b[r + 1];
-          s2 += a[r + 2] * b[r + 2];
-          s3 += a[r + 3] * b[r + 3];
+        for (int r = 0; r < n; r++) {
+          s0 += a0[r] * b[r];
+          s1 += a1[r] * b[r];
         }
-        for (; r < n; r++) {
-          s0 += a[r] * b[r];
-        }
-        gram[j * p + k] += (s0 + s1) + (s2 + s3);
+        gram[j * p + k] += s0;
+        gram[(j + 1) * p + k] += s1;
       }
+    }
+    if (j < p) {
+      double[] a = block[j];
+      double s0 = 0;
+      for (int r = 0; r < n; r++) {
+        s0 += a[r] * a[r];
+      }
+      gram[j * p + j] += s0;
     }
     pending = 0;
   }

@@ -110,7 +110,7 @@ public final class RankSearch {
     for (int i = 0; i < sorted.length; i++) {
       sorted[i] += 0.0;
     }
-    Arrays.sort(sorted);
+    Arrays.parallelSort(sorted);
     return sorted;
   }
 
