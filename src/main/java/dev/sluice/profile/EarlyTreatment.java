@@ -21,6 +21,8 @@ import java.util.List;
  */
 final class EarlyTreatment implements Serializable {
   private static final long serialVersionUID = 1L;
+  /** Not a state: the row is kept aside (see {@link #place}). */
+  private static final byte ASIDE = -1;
   private final NumericSteps[] validity;
   private final NumericSteps.Action[] mode;
   /** Per column: values below lowEdge are surely below the lower limit, values from lowTop up surely not. */
@@ -106,21 +108,13 @@ final class EarlyTreatment implements Serializable {
     }
     for (int s = 0; s < p; s++) {
       double v = validity[s].valid(raw[s]);
-      values[s] = v;
-      if (Double.isNaN(v)) {
-        states[s] = CoMoments.MISSING;
-      } else if (mode[s] == NumericSteps.Action.LEAVE) {
-        states[s] = CoMoments.VALUE;
-      } else if (v < lowEdge[s]) {
-        states[s] = mode[s] == NumericSteps.Action.CAP ? CoMoments.BELOW : CoMoments.MISSING;
-      } else if (v > highEdge[s]) {
-        states[s] = mode[s] == NumericSteps.Action.CAP ? CoMoments.ABOVE : CoMoments.MISSING;
-      } else if (v < lowTop[s] || v > highBottom[s]) {
+      byte state = place(s, v);
+      if (state == ASIDE) {
         keepAside(raw);
         return;
-      } else {
-        states[s] = CoMoments.VALUE;
       }
+      values[s] = v;
+      states[s] = state;
     }
     comoments.add(values, states);
   }
@@ -128,13 +122,31 @@ final class EarlyTreatment implements Serializable {
   /** Whether {@link #add} would keep this row aside: one of its valid values is inside a band. */
   boolean inBand(double[] raw) {
     for (int s = 0; s < raw.length; s++) {
-      double v = validity[s].valid(raw[s]);
-      if (mode[s] != NumericSteps.Action.LEAVE && !Double.isNaN(v)
-          && v >= lowEdge[s] && v <= highEdge[s] && (v < lowTop[s] || v > highBottom[s])) {
+      if (place(s, validity[s].valid(raw[s])) == ASIDE) {
         return true;
       }
     }
     return false;
+  }
+
+  /**
+   * Where a value of column s after the validity step (NaN: missing) goes: its state in the
+   * co-moments, or {@link #ASIDE} when it lies inside a band and the row must wait for the limits.
+   */
+  private byte place(int s, double v) {
+    if (Double.isNaN(v)) {
+      return CoMoments.MISSING;
+    }
+    if (mode[s] == NumericSteps.Action.LEAVE) {
+      return CoMoments.VALUE;
+    }
+    if (v < lowEdge[s]) {
+      return mode[s] == NumericSteps.Action.CAP ? CoMoments.BELOW : CoMoments.MISSING;
+    }
+    if (v > highEdge[s]) {
+      return mode[s] == NumericSteps.Action.CAP ? CoMoments.ABOVE : CoMoments.MISSING;
+    }
+    return v < lowTop[s] || v > highBottom[s] ? ASIDE : CoMoments.VALUE;
   }
 
   /** Rows {@link #add} may keep aside before it gives up. */
