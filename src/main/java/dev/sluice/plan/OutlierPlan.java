@@ -1,5 +1,6 @@
 package dev.sluice.plan;
 
+import dev.sluice.config.ColumnSettings;
 import dev.sluice.stats.NumericSteps;
 
 /**
@@ -29,14 +30,24 @@ public record OutlierPlan(
 
   /** Steps 2 and 3 for one value in plain Java: the given validity bounds, then this action. */
   public NumericSteps steps(Double validMin, Double validMax) {
-    NumericSteps.Action a = switch (action) {
+    return new NumericSteps(validMin == null ? Double.NEGATIVE_INFINITY : validMin,
+        validMax == null ? Double.POSITIVE_INFINITY : validMax, stepAction(),
+        lower == null ? Double.NEGATIVE_INFINITY : lower, upper == null ? Double.POSITIVE_INFINITY : upper);
+  }
+
+  /** {@link #steps(Double, Double)} with the column's configured validity bounds. */
+  public NumericSteps steps(ColumnSettings column) {
+    return steps(column.validMin().isPresent() ? column.validMin().getAsDouble() : null,
+        column.validMax().isPresent() ? column.validMax().getAsDouble() : null);
+  }
+
+  /** What the action does to a value beyond a limit (whether or not there is a limit). */
+  public NumericSteps.Action stepAction() {
+    return switch (action) {
       case "cap" -> NumericSteps.Action.CAP;
       case "set-missing", "quarantine" -> NumericSteps.Action.REMOVE;
       default -> NumericSteps.Action.LEAVE;
     };
-    return new NumericSteps(validMin == null ? Double.NEGATIVE_INFINITY : validMin,
-        validMax == null ? Double.POSITIVE_INFINITY : validMax, a,
-        lower == null ? Double.NEGATIVE_INFINITY : lower, upper == null ? Double.POSITIVE_INFINITY : upper);
   }
 
   public static OutlierPlan none(String reason) {

@@ -92,7 +92,7 @@ final class PassOneFinish {
     int j = share.measured().indexOf(c.name());
     OrderWindows w = share.windows()[j];
     ColumnSettings cs = settings.column(c.name());
-    NumericSteps steps = o.steps(box(cs.validMin()), box(cs.validMax()));
+    NumericSteps steps = o.steps(cs);
     long usable = c.usable();
     long[] beyond = new long[6];
     Double[] limits = {o.innerLower(), o.innerUpper(), o.outerLower(), o.outerUpper(), o.lower(), o.upper()};
@@ -225,8 +225,7 @@ final class PassOneFinish {
     CoMoments m = share.comoments().emptyCopy().merge(share.comoments());
     NumericSteps[] steps = new NumericSteps[all.size()];
     for (int s = 0; s < all.size(); s++) {
-      ColumnSettings cs = settings.column(all.get(s));
-      steps[s] = outliers.get(all.get(s)).steps(box(cs.validMin()), box(cs.validMax()));
+      steps[s] = outliers.get(all.get(s)).steps(settings.column(all.get(s)));
     }
     for (int s = 0; s < all.size(); s++) {
       if (!agrees(share.actions()[s], share.bands()[s], outliers.get(all.get(s)))) {
@@ -252,11 +251,7 @@ final class PassOneFinish {
    * limit, values between the bands within it), or no limit where pass 1 assumed none.
    */
   static boolean agrees(NumericSteps.Action assumed, double[] band, OutlierPlan o) {
-    NumericSteps.Action actual = !o.active() ? NumericSteps.Action.LEAVE : switch (o.action()) {
-      case "cap" -> NumericSteps.Action.CAP;
-      case "set-missing", "quarantine" -> NumericSteps.Action.REMOVE;
-      default -> NumericSteps.Action.LEAVE;
-    };
+    NumericSteps.Action actual = o.active() ? o.stepAction() : NumericSteps.Action.LEAVE;
     if (actual != assumed) {
       return false;
     }
@@ -272,9 +267,5 @@ final class PassOneFinish {
       return limit == null;
     }
     return limit != null && low <= limit && limit <= high;
-  }
-
-  private static Double box(java.util.OptionalDouble d) {
-    return d.isPresent() ? d.getAsDouble() : null;
   }
 }

@@ -82,9 +82,7 @@ public final class TreatedStatsPass {
       ColumnSettings cs = settings.column(c.name());
       OutlierPlan o = outliers.get(c.name());
       projection.add(ValueExprs.asDouble(c.name()));
-      Double lo = cs.validMin().isPresent() ? cs.validMin().getAsDouble() : null;
-      Double hi = cs.validMax().isPresent() ? cs.validMax().getAsDouble() : null;
-      steps[k] = o.steps(lo, hi);
+      steps[k] = o.steps(cs);
       limits[k] = new double[] {
         low(o.innerLower()), high(o.innerUpper()), low(o.outerLower()), high(o.outerUpper()),
         low(o.lower()), high(o.upper())};
