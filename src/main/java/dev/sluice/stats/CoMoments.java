@@ -273,75 +273,77 @@ public final class CoMoments implements Serializable {
     }
   }
 
-  /** Adds the pending rows' products to the triangle, four partial sums per cell. */
+  /**
+   * Adds the pending rows' products to the triangle, two columns against two at a time: four sums
+   * from four loads per row, where one pair at a time needs two loads per product.
+   */
   private void flush() {
     if (pending == 0) {
       return;
     }
-    int n = pending;
     int j = 0;
-    // Two columns against two at a time: four sums from four loads per row, where one pair at a
-    // time needs two loads per product.
     for (; j + 1 < p; j += 2) {
-      double[] a0 = block[j];
-      double[] a1 = block[j + 1];
-      double d00 = 0;
-      double d01 = 0;
-      double d11 = 0;
-      for (int r = 0; r < n; r++) {
-        double x0 = a0[r];
-        double x1 = a1[r];
-        d00 += x0 * x0;
-        d01 += x0 * x1;
-        d11 += x1 * x1;
-      }
-      gram[j * p + j] += d00;
-      gram[j * p + j + 1] += d01;
-      gram[(j + 1) * p + j + 1] += d11;
-      int k = j + 2;
+      int k = j;
       for (; k + 1 < p; k += 2) {
-        double[] b0 = block[k];
-        double[] b1 = block[k + 1];
-        double s00 = 0;
-        double s01 = 0;
-        double s10 = 0;
-        double s11 = 0;
-        for (int r = 0; r < n; r++) {
-          double x0 = a0[r];
-          double x1 = a1[r];
-          double y0 = b0[r];
-          double y1 = b1[r];
-          s00 += x0 * y0;
-          s01 += x0 * y1;
-          s10 += x1 * y0;
-          s11 += x1 * y1;
-        }
-        gram[j * p + k] += s00;
-        gram[j * p + k + 1] += s01;
-        gram[(j + 1) * p + k] += s10;
-        gram[(j + 1) * p + k + 1] += s11;
+        addTwoByTwo(j, k, pending);
       }
       if (k < p) {
-        double[] b = block[k];
-        double s0 = 0;
-        double s1 = 0;
-        for (int r = 0; r < n; r++) {
-          s0 += a0[r] * b[r];
-          s1 += a1[r] * b[r];
-        }
-        gram[j * p + k] += s0;
-        gram[(j + 1) * p + k] += s1;
+        addTwoByOne(j, k, pending);
       }
     }
     if (j < p) {
       double[] a = block[j];
-      double s0 = 0;
-      for (int r = 0; r < n; r++) {
-        s0 += a[r] * a[r];
+      double s = 0;
+      for (int r = 0; r < pending; r++) {
+        s += a[r] * a[r];
       }
-      gram[j * p + j] += s0;
+      gram[j * p + j] += s;
     }
     pending = 0;
+  }
+
+  /** Cells (j, k), (j, k + 1), (j + 1, k), (j + 1, k + 1) of the upper triangle, for k >= j. */
+  private void addTwoByTwo(int j, int k, int n) {
+    double[] a0 = block[j];
+    double[] a1 = block[j + 1];
+    double[] b0 = block[k];
+    double[] b1 = block[k + 1];
+    double s00 = 0;
+    double s01 = 0;
+    double s10 = 0;
+    double s11 = 0;
+    for (int r = 0; r < n; r++) {
+      double x0 = a0[r];
+      double x1 = a1[r];
+      double y0 = b0[r];
+      double y1 = b1[r];
+      s00 += x0 * y0;
+      s01 += x0 * y1;
+      s10 += x1 * y0;
+      s11 += x1 * y1;
+    }
+    gram[j * p + k] += s00;
+    gram[j * p + k + 1] += s01;
+    if (k > j) {
+      // On the diagonal block (k == j) this cell is (j + 1, j), below the triangle.
+      gram[(j + 1) * p + k] += s10;
+    }
+    gram[(j + 1) * p + k + 1] += s11;
+  }
+
+  /** Cells (j, k) and (j + 1, k), for the last column k when the columns after j are odd. */
+  private void addTwoByOne(int j, int k, int n) {
+    double[] a0 = block[j];
+    double[] a1 = block[j + 1];
+    double[] b = block[k];
+    double s0 = 0;
+    double s1 = 0;
+    for (int r = 0; r < n; r++) {
+      s0 += a0[r] * b[r];
+      s1 += a1[r] * b[r];
+    }
+    gram[j * p + k] += s0;
+    gram[(j + 1) * p + k] += s1;
   }
 
   private void writeObject(java.io.ObjectOutputStream out) throws java.io.IOException {
