@@ -3,7 +3,6 @@ package dev.sluice.profile;
 import dev.sluice.config.ColumnSettings;
 import dev.sluice.config.Direction;
 import dev.sluice.config.ImputeStrategy;
-import dev.sluice.config.OutlierAction;
 import dev.sluice.config.OutlierMethod;
 import dev.sluice.config.OutlierSettings;
 import dev.sluice.config.Role;
@@ -83,9 +82,8 @@ final class EarlySetup {
     }
     EarlyTreatment treatment = sampled.length >= 2
         ? treatment(settings, layout, validity, sampled, inner, centre, scale) : null;
-    double perPartition = treatment == null ? 0
-        : expectedAside(treatment, pilot, sampled, rows) / Math.max(1, partitions);
-    if (perPartition > ASIDE_SHARE * (treatment == null ? 0 : treatment.limit())) {
+    if (treatment != null && expectedAside(treatment, pilot, sampled, rows) / Math.max(1, partitions)
+        > ASIDE_SHARE * treatment.limit()) {
       // Too many rows would be kept aside (many columns, or wide bands): pass 1 would do the
       // co-moments for nothing and pass 2 again.
       return null;
@@ -130,9 +128,7 @@ final class EarlySetup {
     }
     List<double[]> bands = new ArrayList<>(List.of(new double[] {in[0], in[1]},
         new double[] {in[2], in[3]}, new double[] {out[0], out[1]}, new double[] {out[2], out[3]}));
-    boolean removes = cs.outliers().method() == OutlierMethod.IQR
-        && (cs.outliers().action() == OutlierAction.SET_MISSING
-            || cs.outliers().action() == OutlierAction.QUARANTINE);
+    boolean removes = assumedAction(cs.outliers()) == NumericSteps.Action.REMOVE;
     if (removes && (cs.missing().strategy() == ImputeStrategy.MEDIAN
         || cs.scaling() == ScalingMethod.ROBUST)) {
       List<double[]> shifted = afterRemoval(usable, in, cs.outliers().direction(), expected);
@@ -214,6 +210,18 @@ final class EarlySetup {
     return lo;
   }
 
+  /** What the column's outlier step will do to a value beyond its limit, by its settings. */
+  private static NumericSteps.Action assumedAction(OutlierSettings o) {
+    if (o.method() == OutlierMethod.NONE) {
+      return NumericSteps.Action.LEAVE;
+    }
+    return switch (o.action()) {
+      case CAP -> NumericSteps.Action.CAP;
+      case SET_MISSING, QUARANTINE -> NumericSteps.Action.REMOVE;
+      default -> NumericSteps.Action.LEAVE;
+    };
+  }
+
   private static EarlyTreatment treatment(Settings settings, ProfileLayout layout,
       NumericSteps[] validity, int[] sampled, double[][][] inner, double[] centre, double[] scale) {
     int p = sampled.length;
@@ -229,11 +237,7 @@ final class EarlySetup {
       v[s] = validity[j];
       c[s] = centre[j];
       f[s] = scale[j];
-      mode[s] = o.method() == OutlierMethod.NONE ? NumericSteps.Action.LEAVE : switch (o.action()) {
-        case CAP -> NumericSteps.Action.CAP;
-        case SET_MISSING, QUARANTINE -> NumericSteps.Action.REMOVE;
-        default -> NumericSteps.Action.LEAVE;
-      };
+      mode[s] = assumedAction(o);
       if (mode[s] != NumericSteps.Action.LEAVE) {
         low[s] = o.direction().lowSide() ? inner[j][0] : null;
         high[s] = o.direction().highSide() ? inner[j][1] : null;
