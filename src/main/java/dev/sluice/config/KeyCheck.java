@@ -46,12 +46,29 @@ final class KeyCheck {
   static void check(Config merged, Config reference) {
     ConfigObject referenceRoot = reference.getObject("sluice");
     List<String> known = knownKeys(referenceRoot, List.of("sluice"));
+    KeyCheck checker = new KeyCheck(referenceRoot);
     Function<Unknown, SluiceException> unknown =
         u ->
             u.report(
-                "Unknown setting " + ConfigUtil.joinPath(u.leaf()), u.leaf(), u.fixed(), known);
-    new KeyCheck(referenceRoot)
-        .walk(List.of("sluice"), merged.root().get("sluice"), referenceRoot, unknown);
+                "Unknown setting " + ConfigUtil.joinPath(u.leaf()),
+                u.leaf(),
+                u.fixed().filter(c -> checker.isKnown(c, known)),
+                known);
+    checker.walk(List.of("sluice"), merged.root().get("sluice"), referenceRoot, unknown);
+  }
+
+  /**
+   * Whether a whole key exists: a key of reference.conf, a Spark setting, or a known key of a
+   * column block. A misspelt part is only corrected into a key that exists.
+   */
+  private boolean isKnown(List<String> key, List<String> known) {
+    if (key.size() > SPARK_CONF.size() && key.subList(0, SPARK_CONF.size()).equals(SPARK_CONF)) {
+      return true;
+    }
+    if (key.size() > COLUMN_DEPTH && key.subList(0, COLUMNS.size()).equals(COLUMNS)) {
+      return knownColumnKeys.contains(ConfigUtil.joinPath(inColumn(key)));
+    }
+    return known.contains(ConfigUtil.joinPath(key));
   }
 
   /**
@@ -119,7 +136,8 @@ final class KeyCheck {
       Function<Unknown, SluiceException> unknown =
           u -> {
             List<String> own = inColumn(u.leaf());
-            Optional<List<String>> fixed = u.fixed().map(KeyCheck::inColumn);
+            Optional<List<String>> fixed = u.fixed().map(KeyCheck::inColumn)
+                .filter(c -> knownColumnKeys.contains(ConfigUtil.joinPath(c)));
             return u.report(shown + ConfigUtil.joinPath(own), own, fixed, knownColumnKeys);
           };
       walk(path, block, defaults, unknown);

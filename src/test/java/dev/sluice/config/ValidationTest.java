@@ -47,6 +47,17 @@ class ValidationTest {
   }
 
   @Test
+  void aCorrectedBlockNameIsOnlySuggestedWhenTheWholeKeyExists() {
+    // "outlier" is close to "outliers", but outliers.k is no key either, and no key ends close to
+    // "k": no hint rather than a wrong one.
+    rejection("sluice.defaults.outlier.k = 3")
+        .isEqualTo("Unknown setting sluice.defaults.outlier.k");
+    rejection("sluice.columns.air_temp_c.outlier.k = 3")
+        .startsWith("Column air_temp_c in config has unknown setting outlier.k")
+        .doesNotContain("did you mean");
+  }
+
+  @Test
   void sparkMasterMustNotBeEmpty() {
     rejection("sluice.spark.master = \"\"")
         .isEqualTo(
