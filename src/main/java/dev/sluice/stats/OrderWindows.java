@@ -4,6 +4,7 @@ import java.io.IOException;
 import java.io.ObjectOutputStream;
 import java.io.Serializable;
 import java.util.Arrays;
+import org.apache.commons.math3.util.KthSelector;
 
 /**
  * One pass of an exact order-statistic search ({@link RankSearch}): counts of the values that fall
@@ -37,8 +38,15 @@ public final class OrderWindows implements Serializable {
   private final double[][] held;
   private final int[] heldSize;
   private final long[][] buckets;
-  /** Windows whose held values are in ascending order (reset by every add and merge). */
-  private transient boolean[] sorted;
+  /** Selects order statistics in place, in linear time (no full sort of the held values). */
+  private static final KthSelector SELECTOR = new KthSelector();
+  /** Entries of a window's cache of selection pivots: ten levels, as Commons Math's Percentile. */
+  private static final int PIVOT_CACHE = (1 << 10) - 1;
+  /**
+   * Per window, the pivots earlier selections left in its held values, so that the next one
+   * starts from them; null until a selection (reset by every add and merge).
+   */
+  private transient int[][] pivots;
 
   /**
    * @param lo first key of each window, ascending
@@ -204,8 +212,8 @@ public final class OrderWindows implements Serializable {
   }
 
   private void hold(int w, double x) {
-    if (sorted != null) {
-      sorted[w] = false;
+    if (pivots != null) {
+      pivots[w] = null;
     }
     double[] h = held[w];
     int n = heldSize[w];
@@ -340,19 +348,27 @@ public final class OrderWindows implements Serializable {
   }
 
   /**
-   * Value number i (0-based) in ascending order of those held in window w; the held values are
-   * sorted in place on first use.
+   * Value number i (0-based) in ascending order of those held in window w, by selection: each
+   * read partially orders the held values in place, in time linear in their number, and later
+   * reads start from the pivots it left. The value is the same as a full sort would give (the held
+   * values have no NaN and no -0.0, so their order is total).
    */
   public double heldValue(int w, int i) {
-    if (sorted == null) {
-      sorted = new boolean[lo.length];
+    if (i < 0 || i >= heldSize[w]) {
+      throw new IndexOutOfBoundsException("Window " + w + " holds " + heldSize[w] + " values, not "
+          + (i + 1));
     }
-    if (!sorted[w]) {
-      // Read on the driver after the pass, when the executors' cores are idle.
-      Arrays.parallelSort(held[w], 0, heldSize[w]);
-      sorted[w] = true;
+    if (pivots == null) {
+      pivots = new int[lo.length][];
     }
-    return held[w][i];
+    if (pivots[w] == null) {
+      // The selector works on the whole array: trim the spare capacity first.
+      held[w] = Arrays.copyOf(held[w], heldSize[w]);
+      pivots[w] = new int[PIVOT_CACHE];
+      Arrays.fill(pivots[w], -1);
+    }
+    // Read on the driver after the pass, when the executors' cores are idle.
+    return SELECTOR.select(held[w], pivots[w], i);
   }
 
   /** The histogram of an overflowed window w (a copy), or null. */

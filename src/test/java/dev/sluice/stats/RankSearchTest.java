@@ -200,6 +200,41 @@ class RankSearchTest {
   }
 
   @Test
+  void heldValuesAreReadInAscendingOrderWhateverTheReadOrder() {
+    // Reference: a full sort of the same values (java.util.Arrays.sort), read at every rank.
+    SplittableRandom r = new SplittableRandom(7);
+    double[] values = new double[5_000];
+    for (int i = 0; i < values.length; i++) {
+      // Ties and both zeros, which must read as 0.0 (the windows order -0.0 as 0.0).
+      values[i] = i % 10 == 0 ? (i % 20 == 0 ? -0.0 : 0.0) : Math.floor(r.nextGaussian() * 300) / 7;
+    }
+    OrderWindows w = new OrderWindows(
+        new long[] {OrderWindows.key(-1e9)}, new long[] {OrderWindows.key(1e9)}, new boolean[1], 10_000);
+    for (double v : values) {
+      w.add(v);
+    }
+    double[] sorted = values.clone();
+    for (int i = 0; i < sorted.length; i++) {
+      sorted[i] += 0.0;
+    }
+    Arrays.sort(sorted);
+    List<Integer> ranks = new ArrayList<>();
+    for (int i = 0; i < values.length; i++) {
+      ranks.add(i);
+    }
+    Collections.shuffle(ranks, new java.util.Random(3));
+    for (int i : ranks) {
+      assertThat(w.heldValue(0, i)).as("rank %d", i).isEqualTo(sorted[i]);
+    }
+    // A value added after reads is taken into account by the next read.
+    w.add(-1e8);
+    assertThat(w.heldValue(0, 0)).isEqualTo(-1e8);
+    assertThat(w.heldValue(0, values.length)).isEqualTo(sorted[values.length - 1]);
+    assertThatThrownBy(() -> w.heldValue(0, values.length + 1))
+        .isInstanceOf(IndexOutOfBoundsException.class);
+  }
+
+  @Test
   void argumentsAreChecked() {
     assertThatThrownBy(() -> new RankSearch(new double[] {1.5}, 10))
         .hasMessage("Cannot take the quantile at p = 1.5: p must be in [0, 1]");
