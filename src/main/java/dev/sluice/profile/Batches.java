@@ -9,6 +9,7 @@ import org.apache.spark.sql.execution.ColumnarToRowExec;
 import org.apache.spark.sql.execution.InputAdapter;
 import org.apache.spark.sql.execution.SparkPlan;
 import org.apache.spark.sql.execution.WholeStageCodegenExec;
+import org.apache.spark.sql.execution.vectorized.WritableColumnVector;
 import org.apache.spark.sql.types.BooleanType;
 import org.apache.spark.sql.types.ByteType;
 import org.apache.spark.sql.types.DataType;
@@ -141,5 +142,56 @@ public final class Batches {
       return v.getBoolean(i) ? TRUE : FALSE;
     }
     return v.getUTF8String(i);
+  }
+
+  /**
+   * The distinct values of a text vector that Spark's Parquet reader left dictionary-encoded, so
+   * that a batch hashes each of them once rather than every row: within one batch the ids refer
+   * to one dictionary (a batch never spans column chunks, and a batch whose pages change encoding
+   * comes decoded). Reusable from batch to batch; not thread-safe.
+   */
+  static final class Tally {
+    /** Row count of each dictionary id in the current batch (zero again after {@link #of}). */
+    private int[] countById = new int[64];
+    /** The first row of each distinct value, in order of first appearance. */
+    int[] firstRow = new int[0];
+    /** The number of non-null rows of each distinct value. */
+    int[] count = new int[0];
+
+    /**
+     * Tallies the first n rows of {@code v}: returns the number of distinct non-null values, with
+     * {@link #firstRow} and {@link #count} filled, or -1 when {@code v} is not dictionary-encoded
+     * text (then read it row by row).
+     */
+    int of(ColumnVector v, DataType t, int n) {
+      if (!(t instanceof StringType && v instanceof WritableColumnVector w && w.hasDictionary())) {
+        return -1;
+      }
+      if (firstRow.length < n) {
+        firstRow = new int[n];
+        count = new int[n];
+      }
+      WritableColumnVector ids = w.getDictionaryIds();
+      boolean anyNull = w.hasNull();
+      int distinct = 0;
+      for (int r = 0; r < n; r++) {
+        if (anyNull && w.isNullAt(r)) {
+          continue;
+        }
+        int id = ids.getDictId(r);
+        if (id >= countById.length) {
+          countById = java.util.Arrays.copyOf(countById, Math.max(id + 1, 2 * countById.length));
+        }
+        if (countById[id]++ == 0) {
+          firstRow[distinct++] = r;
+        }
+      }
+      for (int k = 0; k < distinct; k++) {
+        int id = ids.getDictId(firstRow[k]);
+        count[k] = countById[id];
+        countById[id] = 0;
+      }
+      return distinct;
+    }
   }
 }

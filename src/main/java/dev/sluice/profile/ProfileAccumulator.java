@@ -56,6 +56,7 @@ final class ProfileAccumulator implements RowScan.Accumulator<ProfileAccumulator
   private transient double[] sampleRow;
   private transient double[][] batchValues;
   private transient boolean[][] batchNulls;
+  private transient Batches.Tally tally;
 
   /**
    * @param validity per measured column (projection order), its validity bounds
@@ -139,7 +140,7 @@ final class ProfileAccumulator implements RowScan.Accumulator<ProfileAccumulator
         if (!values[i].increment(hash)) {
           values[i].insert(hash, row.getUTF8String(at).copy());
         }
-        countText(i, hash);
+        countText(i, hash, 1);
       }
     }
     for (int i : layout.rest) {
@@ -189,13 +190,30 @@ final class ProfileAccumulator implements RowScan.Accumulator<ProfileAccumulator
     for (int i : layout.categorical) {
       ColumnVector v = batch.column(layout.rawAt[i]);
       DataType t = layout.rawTypes[i];
+      if (tally == null) {
+        tally = new Batches.Tally();
+      }
+      int distinctInBatch = tally.of(v, t, n);
+      if (distinctInBatch >= 0) {
+        // Dictionary-encoded text: each distinct value hashed once, with its count in the batch.
+        for (int k = 0; k < distinctInBatch; k++) {
+          int r = tally.firstRow[k];
+          int c = tally.count[k];
+          long hash = Batches.hash(v, t, r);
+          if (!values[i].increment(hash, c)) {
+            values[i].insert(hash, Batches.text(v, t, r).copy(), c);
+          }
+          countText(i, hash, c);
+        }
+        continue;
+      }
       for (int r = 0; r < n; r++) {
         if (!v.isNullAt(r)) {
           long hash = Batches.hash(v, t, r);
           if (!values[i].increment(hash)) {
             values[i].insert(hash, Batches.text(v, t, r).copy());
           }
-          countText(i, hash);
+          countText(i, hash, 1);
         }
       }
     }
@@ -239,8 +257,8 @@ final class ProfileAccumulator implements RowScan.Accumulator<ProfileAccumulator
   }
 
   /** A non-null categorical value, already counted by hash for the mode. */
-  private void countText(int i, long hash) {
-    present[i]++;
+  private void countText(int i, long hash, long occurrences) {
+    present[i] += occurrences;
     distinct[i].add(hash);
   }
 

@@ -64,6 +64,11 @@ public final class HashedCounts<V extends Comparable<? super V>> implements Seri
    * overflowed.
    */
   public boolean increment(long hash) {
+    return increment(hash, 1);
+  }
+
+  /** As {@link #increment(long)}, adding {@code by} (at least 1) occurrences at once. */
+  public boolean increment(long hash, long by) {
     if (overflowed) {
       return true;
     }
@@ -71,13 +76,18 @@ public final class HashedCounts<V extends Comparable<? super V>> implements Seri
     if (counts[i] == 0) {
       return false;
     }
-    counts[i]++;
+    counts[i] += by;
     return true;
   }
 
   /** Holds a new value with count 1 (the caller checked it is not held); overflows past the limit. */
   public void insert(long hash, V value) {
     put(hash, value, 1);
+  }
+
+  /** As {@link #insert(long, Object)}, with {@code count} (at least 1) occurrences. */
+  public void insert(long hash, V value, long count) {
+    put(hash, value, count);
   }
 
   private void put(long hash, Object value, long count) {

@@ -34,6 +34,7 @@ class ColumnarProfileTest {
         + " CAST(id / 3.0 AS DOUBLE) AS d, CAST(id / 9 AS DECIMAL(38,18)) AS dec,"
         + " CASE WHEN id % 11 = 0 THEN NULL ELSE CAST(id % 13 AS DOUBLE) END AS gaps,"
         + " CASE WHEN id % 5 = 0 THEN 'Ünïcode-' || CAST(id % 17 AS STRING) ELSE 'lot-' || CAST(id % 41 AS STRING) END AS label,"
+        + " CASE WHEN id % 6 = 0 THEN NULL ELSE 'grade-' || CAST(id % 4 AS STRING) END AS grade,"
         + " id % 3 = 0 AS flag, DATE'2026-10-01' + CAST(id % 28 AS INT) AS day,"
         + " TIMESTAMP'2026-10-01 08:00:00' + make_interval(0, 0, 0, 0, 0, CAST(id % 600 AS INT), 0) AS at,"
         + " 'PL-' || CAST(id AS STRING) AS pallet, named_struct('a', id) AS nested,"
@@ -68,6 +69,7 @@ class ColumnarProfileTest {
     assertThat(columnar.sample().weights()).isEqualTo(rows.sample().weights());
     // The checks above compare something: every kind of column was profiled.
     assertThat(columnar.column("label").orElseThrow().topValue()).isNotNull();
+    assertThat(columnar.column("grade").orElseThrow().nulls()).isEqualTo(834);
     assertThat(columnar.column("pallet").orElseThrow().distinct()).isEqualTo(5000);
     assertThat(columnar.column("odd").orElseThrow().nan()).isPositive();
     assertThat(columnar.column("day").orElseThrow().maxText()).isEqualTo("2026-10-28");
@@ -78,6 +80,47 @@ class ColumnarProfileTest {
         c.infinite(), c.invalid(), c.usable(), c.min(), c.max(), Double.NaN, Double.NaN, c.q1(),
         c.median(), c.q3(), c.quantileMethod(), c.rankError(), c.mad(), c.distinct(), c.topValue(),
         c.topCount(), c.minText(), c.maxText());
+  }
+
+  @Test
+  void dictionaryEncodedTextIsTalliedOncePerValue(SparkSession spark) {
+    // Reference: Spark's own group-by count of the same column.
+    String dir = tmp.resolve("dict").toString();
+    spark.sql("SELECT CASE WHEN id % 6 = 0 THEN NULL ELSE 'grade-' || CAST(id % 4 AS STRING) END AS grade"
+        + " FROM range(10000)").coalesce(1).write().parquet(dir);
+    Dataset<Row> data = spark.read().parquet(dir);
+    Map<String, Long> expected = new HashMap<>();
+    data.groupBy("grade").count().collectAsList()
+        .forEach(r -> expected.put(r.isNullAt(0) ? null : r.getString(0), r.getLong(1)));
+    expected.remove(null);
+    java.util.List<String> tallied = Batches.of(data).orElseThrow().mapPartitions(batches -> {
+      Batches.Tally tally = new Batches.Tally();
+      Map<String, Long> counts = new HashMap<>();
+      int encoded = 0;
+      while (batches.hasNext()) {
+        org.apache.spark.sql.vectorized.ColumnarBatch b = batches.next();
+        int k = tally.of(b.column(0), org.apache.spark.sql.types.DataTypes.StringType, b.numRows());
+        if (k < 0) {
+          continue;
+        }
+        encoded++;
+        for (int i = 0; i < k; i++) {
+          counts.merge(b.column(0).getUTF8String(tally.firstRow[i]).toString(), (long) tally.count[i], Long::sum);
+        }
+      }
+      java.util.List<String> out = new java.util.ArrayList<>();
+      counts.forEach((v, c) -> out.add(v + "=" + c));
+      out.add("encoded batches: " + (encoded > 0));
+      return out.iterator();
+    }).collect();
+    java.util.List<String> want = new java.util.ArrayList<>();
+    expected.forEach((v, c) -> want.add(v + "=" + c));
+    want.add("encoded batches: true");
+    assertThat(tallied).containsExactlyInAnyOrderElementsOf(want);
+    // Not text: read row by row.
+    assertThat(new Batches.Tally().of(
+        new org.apache.spark.sql.execution.vectorized.OnHeapColumnVector(4, org.apache.spark.sql.types.DataTypes.IntegerType),
+        org.apache.spark.sql.types.DataTypes.IntegerType, 4)).isEqualTo(-1);
   }
 
   @Test

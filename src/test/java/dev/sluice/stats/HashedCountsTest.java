@@ -79,6 +79,27 @@ class HashedCountsTest {
   }
 
   @Test
+  void countsAddedManyAtOnceEqualOneAtATime() {
+    // Reference: the same values added one at a time (smallExampleCountedByHand's pattern).
+    List<String> values = List.of("frozen", "dairy", "chilled", "dairy", "frozen", "dairy", "chilled", "dairy");
+    HashedCounts<String> one = new HashedCounts<>(10);
+    values.forEach(v -> add(one, v));
+    HashedCounts<String> many = new HashedCounts<>(10);
+    for (String v : List.of("frozen", "dairy", "chilled")) {
+      long n = values.stream().filter(v::equals).count();
+      long hash = v.hashCode() * 0x9E3779B97F4A7C15L;
+      if (!many.increment(hash, n)) {
+        many.insert(hash, v, n);
+      }
+    }
+    assertThat(many.top()).isEqualTo(one.top()).isEqualTo("dairy");
+    assertThat(many.topCount()).isEqualTo(one.topCount()).isEqualTo(4);
+    assertThat(many.distinct()).isEqualTo(3);
+    assertThat(many.increment("dairy".hashCode() * 0x9E3779B97F4A7C15L, 3)).isTrue();
+    assertThat(many.topCount()).isEqualTo(7);
+  }
+
+  @Test
   void overflowPastTheLimitIsStickyAndGivesNoTop() {
     HashedCounts<String> c = new HashedCounts<>(3);
     List.of("a", "b", "c").forEach(v -> add(c, v));
