@@ -134,14 +134,24 @@ public final class RankSearch {
   private static List<long[]> splitAtHeavyValues(long[] range, double[] sorted, double heavy) {
     List<long[]> out = new ArrayList<>();
     long next = range[0];
+    // Only the pilot values inside the range: from the first one (keys ascend with the values).
     int i = 0;
-    while (i < sorted.length) {
+    int above = sorted.length;
+    while (i < above) {
+      int mid = (i + above) >>> 1;
+      if (OrderWindows.key(sorted[mid]) < range[0]) {
+        i = mid + 1;
+      } else {
+        above = mid;
+      }
+    }
+    while (i < sorted.length && OrderWindows.key(sorted[i]) <= range[1]) {
       int j = i;
       while (j < sorted.length && sorted[j] == sorted[i]) {
         j++;
       }
       long k = OrderWindows.key(sorted[i]);
-      if (k >= range[0] && k <= range[1] && j - i >= heavy) {
+      if (j - i >= heavy) {
         if (k > next) {
           out.add(new long[] {next, k - 1});
         }
