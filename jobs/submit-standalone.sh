@@ -8,7 +8,8 @@
 #   SLUICE_MASTER           master URL (required)
 #   SPARK_HOME              Spark 4.x (Scala 2.13) installation; else spark-submit on PATH
 #   SLUICE_JAR              the job jar (target/sluice-*-job.jar, from mvn package)
-#   SLUICE_CONFIG           HOCON settings file, passed as --config (none: reference.conf defaults)
+#   SLUICE_CONFIG           HOCON settings file, shipped with --files and passed as --config
+#                           (none: the reference.conf defaults)
 #   SLUICE_DRIVER_MEMORY    driver heap (2g)
 #   SLUICE_EXECUTOR_MEMORY  heap of each executor (4g)
 #   SLUICE_EXECUTOR_CORES   cores of each executor (2)

@@ -35,12 +35,16 @@ sluice_submit() {
     elif [[ ! -f "$SLUICE_CONFIG" ]]; then
       echo "sluice: SLUICE_CONFIG=$SLUICE_CONFIG is not a file" >&2
       exit 2
-    elif [[ "$DEPLOY_MODE" == cluster ]]; then
-      # --files puts the file in the driver's working directory, under its own name.
-      files=(--files "$SLUICE_CONFIG")
-      config=(--config "$(basename "$SLUICE_CONFIG")")
     else
-      config=(--config "$SLUICE_CONFIG")
+      # Shipped with the job, so the run's settings travel with it and appear in its logs. A
+      # cluster-mode driver finds the file in its working directory under its own name; a
+      # client-mode driver reads it where it is.
+      files=(--files "$SLUICE_CONFIG")
+      if [[ "$DEPLOY_MODE" == cluster ]]; then
+        config=(--config "$(basename "$SLUICE_CONFIG")")
+      else
+        config=(--config "$SLUICE_CONFIG")
+      fi
     fi
   fi
   # shellcheck disable=SC2206

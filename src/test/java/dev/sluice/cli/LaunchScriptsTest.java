@@ -47,8 +47,7 @@ class LaunchScriptsTest {
         "SLUICE_CONFIG", "conf/sample.conf", "SLUICE_EXECUTOR_MEMORY", "6g"), "survey", "--input", "a b", "--output", "c");
     assertThat(r.code()).as(r.out()).isZero();
     assertThat(r.out()).contains("--deploy-mode client", "--master spark://m:7077", "--executor-memory 6g",
-        "--driver-memory 2g", "survey --input a\\ b --output c --config conf/sample.conf")
-        .doesNotContain("--files");
+        "--driver-memory 2g", "--files conf/sample.conf", "survey --input a\\ b --output c --config conf/sample.conf");
     Ran missing = script("submit-standalone.sh", Map.of(), "run");
     assertThat(missing.code()).isNotZero();
     assertThat(missing.out()).contains("set SLUICE_MASTER");

@@ -49,6 +49,8 @@ final class StandaloneCluster implements AutoCloseable {
   static StandaloneCluster start(Path dir, Path runtimeClasspath, List<Path> extraJars,
       List<String> javaFlags, int workers, int workerMb) throws IOException, InterruptedException {
     StandaloneCluster c = new StandaloneCluster(dir, javaFlags);
+    // Torn down even when the test JVM is stopped before its tests end.
+    Runtime.getRuntime().addShutdownHook(new Thread(c::close, "stop-standalone-cluster"));
     try {
       c.linkJars(runtimeClasspath);
       for (Path jar : extraJars) {
@@ -152,7 +154,7 @@ final class StandaloneCluster implements AutoCloseable {
   }
 
   @Override
-  public void close() {
+  public synchronized void close() {
     for (Process d : daemons) {
       kill(d);
     }
