@@ -9,7 +9,9 @@ import dev.sluice.config.Settings;
 import dev.sluice.io.InputTable;
 import dev.sluice.io.OutputLayout;
 import dev.sluice.io.TableReader;
+import dev.sluice.config.SettingsLoader;
 import dev.sluice.report.CorrelationTable;
+import dev.sluice.report.HtmlReport;
 import dev.sluice.report.Outputs;
 import dev.sluice.report.SummaryTable;
 import dev.sluice.treat.TreatmentSplit;
@@ -100,6 +102,9 @@ public final class Job {
     }
     Map<String, Object> record = RunRecord.of(runId, args, table, rows, seconds, started, spark);
     Outputs.json(spark, out.staged("run.json"), record);
+    Outputs.text(spark, out.staged("report.html"), HtmlReport.render(new HtmlReport.Inputs(record,
+        fit.profile(), fit.plan(), fit.stats(), settings,
+        SettingsLoader.differencesFromDefaults(args.config().map(java.nio.file.Path::of), args.sets()))));
     boolean partial = args.where().isPresent() && !table.partitionColumns().isEmpty();
     out.publish(partial ? Set.of("treated", "quarantine") : Set.of(), RunRecord.marker(record));
     return record;

@@ -10,6 +10,7 @@ import com.typesafe.config.ConfigValue;
 import dev.sluice.SluiceException;
 import java.nio.file.Files;
 import java.nio.file.Path;
+import java.util.ArrayList;
 import java.util.Collection;
 import java.util.HashSet;
 import java.util.List;
@@ -60,6 +61,28 @@ public final class SettingsLoader {
     Config merged = resolve(config.withFallback(reference()));
     KeyCheck.check(merged, reference());
     return SettingsParser.parse(merged.getConfig("sluice"));
+  }
+
+  /**
+   * The settings of a run that differ from reference.conf, as sorted "key = value" lines (keys
+   * without the leading {@code sluice.}; values as HOCON renders them): what the report lists.
+   */
+  public static List<String> differencesFromDefaults(Optional<Path> configFile, List<String> overrides) {
+    Config effective = effectiveConfig(configFile, overrides);
+    Config reference = reference();
+    List<String> out = new ArrayList<>();
+    for (Map.Entry<String, ConfigValue> e : effective.entrySet()) {
+      String key = e.getKey();
+      Object value = e.getValue().unwrapped();
+      if (reference.hasPathOrNull(key) && !reference.getIsNull(key)
+          && java.util.Objects.equals(reference.getValue(key).unwrapped(), value)) {
+        continue;
+      }
+      out.add(key.replaceFirst("^sluice\\.", "") + " = "
+          + e.getValue().render(com.typesafe.config.ConfigRenderOptions.concise()));
+    }
+    java.util.Collections.sort(out);
+    return out;
   }
 
   /** The configured column names (sorted) that {@code tableColumns} lacks. */

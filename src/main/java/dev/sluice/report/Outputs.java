@@ -105,6 +105,15 @@ public final class Outputs {
     }
   }
 
+  /** Writes {@code text} as UTF-8 to {@code file} (replacing it). */
+  public static void text(SparkSession spark, String file, String text) {
+    try (OutputStream os = create(spark, file)) {
+      os.write(text.getBytes(java.nio.charset.StandardCharsets.UTF_8));
+    } catch (IOException e) {
+      throw new UncheckedIOException("Cannot write " + file, e);
+    }
+  }
+
   private static OutputStream create(SparkSession spark, String file) throws IOException {
     Path p = new Path(file);
     FileSystem fs = p.getFileSystem(spark.sparkContext().hadoopConfiguration());

@@ -60,7 +60,7 @@ class SampleRunTest {
     assertThat(exit).isZero();
     assertThat(stdout).contains(out.toString());
     for (String f : List.of("treated", "summary", "summary.csv", "correlations", "correlations.csv",
-        "plan.json", "run.json")) {
+        "plan.json", "run.json", "report.html")) {
       assertThat(out.resolve(f)).as(f).exists();
     }
   }
