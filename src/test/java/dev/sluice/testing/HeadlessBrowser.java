@@ -54,8 +54,9 @@ import javax.imageio.ImageIO;
  * #start(Duration)} and throw {@link IllegalStateException} with the method's name.
  *
  * <p>The protocol (methods, events and their fields) is Chrome's published DevTools Protocol,
- * https://chromedevtools.github.io/devtools-protocol/ ; the DevToolsActivePort file and the page
- * URL format were checked against Debian's Chromium 156.
+ * https://chromedevtools.github.io/devtools-protocol/ ; the DevToolsActivePort file (port, then
+ * the browser endpoint's path) and the event fields used here were checked against Debian's
+ * Chromium 156.
  */
 public final class HeadlessBrowser implements AutoCloseable {
   private static final ObjectMapper JSON = new ObjectMapper();
