@@ -82,8 +82,10 @@ record BoxPlot(String label, double low, double q1, double median, double q3, do
     b.append("<text class=\"rowlabel\" x=\"4\" y=\"").append(xy(y + 4)).append("\">").append(esc(label))
         .append("</text>");
     if (!drawable()) {
+      String why = Double.isNaN(min) ? "no values" : "quartiles not computed (values from "
+          + num(min) + " to " + num(max) + ")";
       b.append("<text x=\"").append(xy(s.x0())).append("\" y=\"").append(xy(y + 4))
-          .append("\">no values</text></g>");
+          .append("\">").append(esc(why)).append("</text></g>");
       return b.toString();
     }
     line(b, s.x(low), y, s.x(q1), y, "whisker");

@@ -132,7 +132,10 @@ public final class HtmlReport {
         .append("<span class=\"key before\">before</span>: the usable values as read; ")
         .append("<span class=\"key after\">after</span>: after the validity and outlier steps, before ")
         .append("filling and scaling. Boxes span Q1 to Q3 with the median marked; whiskers reach the ")
-        .append("inner fences or the extremes inside them; counts beyond the fences are written out.</p>");
+        .append("inner fences or the extremes inside them; counts beyond the fences are written out. ")
+        .append("Quartiles after the step are measured when filling or scaling needs them, and follow ")
+        .append("exactly from the profile when the step keeps every value in order (capping, flagging); ")
+        .append("otherwise the figure says they were not computed.</p>");
     boolean open = numeric.size() <= OPEN_BLOCKS;
     for (ColumnProfile c : numeric) {
       ColumnPlan cp = in.plan().column(c.name()).orElse(null);

@@ -142,6 +142,21 @@ class HtmlReportTest {
   }
 
   @Test
+  void quartilesAfterRemovalAreNotGuessed(SparkSession spark) {
+    // Values set missing by the outlier step change the quartiles; with mean filling nothing
+    // measures them, so the "after" row says so instead of drawing a box.
+    Dataset<Row> data = spark.range(500).select(
+        functions.expr("CASE WHEN id % 50 = 0 THEN 1000.0 ELSE CAST(id % 40 AS DOUBLE) END").as("load"));
+    String removed = report(data, Fixtures.settings("defaults.outliers.action=set-missing",
+        "defaults.missing.strategy=mean"));
+    assertThat(removed).contains("quartiles not computed (values from 0 to 39)");
+    // Capping keeps the values' order: the quartiles follow from the profile, and the box is drawn.
+    String capped = report(data, Fixtures.settings("defaults.missing.strategy=mean"));
+    assertThat(capped).doesNotContain("quartiles not computed");
+    assertThat(capped.split("class=\"box\"", -1)).hasSize(3);
+  }
+
+  @Test
   void fiveHundredColumnsGiveAUsableFileUnderTenMegabytes(SparkSession spark) {
     List<Column> cols = new ArrayList<>();
     for (int i = 0; i < 500; i++) {
