@@ -21,6 +21,7 @@ cd "$HERE"
 if [[ ! -f "$BUILD/local-classpath.txt" || -n "$(find src/main pom.xml -newer "$BUILD/local-classpath.txt" -print -quit)" ]]; then
   echo "bench: building the project..." >&2
   mvn -B -q -DskipTests package >&2
+  touch "$BUILD/local-classpath.txt"
 fi
 export SPARK_LOCAL_IP="${SPARK_LOCAL_IP:-127.0.0.1}"
 read -r -a FLAGS < "$BUILD/launcher/java-flags.txt"

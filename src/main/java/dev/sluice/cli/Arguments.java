@@ -8,8 +8,9 @@ import java.util.Optional;
 /**
  * The parsed command line.
  *
- * @param command run, survey or help
+ * @param command run, survey, fit, treat or help
  * @param sets the {@code --set KEY=VALUE} overrides, in order (a later one wins)
+ * @param plan the saved plan that {@code treat} applies (empty for the other commands)
  */
 public record Arguments(
     String command,
@@ -19,7 +20,8 @@ public record Arguments(
     Optional<String> config,
     List<String> sets,
     Optional<String> where,
-    boolean replace) {
+    boolean replace,
+    Optional<String> plan) {
 
   public static final String USAGE = String.join("\n",
       "Usage:",
@@ -27,11 +29,16 @@ public record Arguments(
       "                [--where PREDICATE] [--replace]",
       "  sluice survey --input PATH [--format parquet|csv|orc|json] --output DIR [--config FILE] [--set KEY=VALUE]...",
       "                [--where PREDICATE] [--replace]",
+      "  sluice fit    (the same options as survey)",
+      "  sluice treat  --plan FILE --input PATH [--format ...] --output DIR [--where PREDICATE] [--replace]",
       "  sluice --help",
       "",
       "  run     profile the table, decide the treatment plan, treat it and write treated/,",
       "          the quality summary, correlations, plan.json and run.json under DIR",
       "  survey  the same without treated data: summary, correlations, plan.json and run.json",
+      "  fit     the same as survey: fits the plan.json that treat applies later",
+      "  treat   apply a saved plan.json to a table without refitting: treated/, quarantine/,",
+      "          the plan used and run.json under DIR (settings come from the plan, not --config)",
       "",
       "  --input PATH     a file or a directory of partitions (local path or Hadoop filesystem URI)",
       "  --format F       input format; default from the file extension, else parquet",
@@ -41,19 +48,22 @@ public record Arguments(
       "  --where PRED     treat only the rows matching a Spark SQL predicate, e.g. \"check_date = '2026-10-05'\";",
       "                   with partitioned output only the partitions written are replaced",
       "  --replace        allow an output directory that holds files not written by Sluice",
+      "  --plan FILE      the plan.json of an earlier run, survey or fit (treat only)",
       "",
       "Exit codes: 0 success, 1 unexpected failure, 2 bad usage or config, 3 bad input.");
 
+  private static final String COMMANDS = "run, survey, fit or treat";
+
   public static Arguments parse(String[] args) {
     if (args.length == 0) {
-      throw SluiceException.usage("No command given; expected run or survey (see sluice --help)");
+      throw SluiceException.usage("No command given; expected " + COMMANDS + " (see sluice --help)");
     }
     String command = args[0];
     if (command.equals("--help") || command.equals("-h") || command.equals("help")) {
       return help();
     }
-    if (!command.equals("run") && !command.equals("survey")) {
-      throw SluiceException.usage("Unknown command " + command + "; expected run or survey (see sluice --help)");
+    if (!List.of("run", "survey", "fit", "treat").contains(command)) {
+      throw SluiceException.usage("Unknown command " + command + "; expected " + COMMANDS + " (see sluice --help)");
     }
     return options(command, args);
   }
@@ -65,6 +75,7 @@ public record Arguments(
     Optional<String> config = Optional.empty();
     List<String> sets = new ArrayList<>();
     Optional<String> where = Optional.empty();
+    Optional<String> plan = Optional.empty();
     boolean replace = false;
     for (int i = 1; i < args.length; i++) {
       String a = args[i];
@@ -84,6 +95,7 @@ public record Arguments(
         case "--config" -> config = Optional.of(value);
         case "--set" -> sets.add(value);
         case "--where" -> where = Optional.of(value);
+        case "--plan" -> plan = Optional.of(value);
         default -> throw SluiceException.usage("Unknown option " + a + " (see sluice --help)");
       }
     }
@@ -93,12 +105,21 @@ public record Arguments(
     if (output == null) {
       throw SluiceException.usage("Missing --output DIR (see sluice --help)");
     }
-    return new Arguments(command, input, format, output, config, List.copyOf(sets), where, replace);
+    if (command.equals("treat") && plan.isEmpty()) {
+      throw SluiceException.usage("treat needs --plan FILE: the plan.json of an earlier run, survey or fit");
+    }
+    if (!command.equals("treat") && plan.isPresent()) {
+      throw SluiceException.usage("--plan is for treat only; " + command + " fits its own plan");
+    }
+    if (command.equals("treat") && (config.isPresent() || !sets.isEmpty())) {
+      throw SluiceException.usage("treat takes its settings from the plan; --config and --set do not apply");
+    }
+    return new Arguments(command, input, format, output, config, List.copyOf(sets), where, replace, plan);
   }
 
   private static Arguments help() {
     return new Arguments("help", null, Optional.empty(), null, Optional.empty(), List.of(),
-        Optional.empty(), false);
+        Optional.empty(), false, Optional.empty());
   }
 
   private static String valueOf(String[] args, int i) {

@@ -8,12 +8,15 @@ import dev.sluice.Sluice;
 import dev.sluice.config.Settings;
 import dev.sluice.io.InputTable;
 import dev.sluice.io.OutputLayout;
+import dev.sluice.io.PlanFile;
+import dev.sluice.plan.Plan;
 import dev.sluice.io.TableReader;
 import dev.sluice.config.SettingsLoader;
 import dev.sluice.report.CorrelationTable;
 import dev.sluice.report.HtmlReport;
 import dev.sluice.report.Outputs;
 import dev.sluice.report.SummaryTable;
+import dev.sluice.treat.TreatedTable;
 import dev.sluice.treat.TreatmentSplit;
 import java.io.PrintStream;
 import java.time.Instant;
@@ -76,6 +79,9 @@ public final class Job {
     OutputLayout out = OutputLayout.prepare(
         spark.sparkContext().hadoopConfiguration(), args.output(), runId, args.replace());
     InputTable selected = where(table);
+    if (args.command().equals("treat")) {
+      return treatWithSavedPlan(runId, started, table, selected, out);
+    }
     Sluice.Fit fit = Sluice.fit(selected.wellFormed(), settings, table.partitionColumns(), this::say);
     Map<String, Double> seconds = new LinkedHashMap<>(fit.seconds());
     Map<String, Object> rows = new LinkedHashMap<>();
@@ -90,7 +96,7 @@ public final class Job {
       CompletableFuture<Double> tables = CompletableFuture.supplyAsync(() -> timed(() -> writeTables(fit, out)),
           BESIDE);
       try {
-        rows.putAll(writeTreated(selected, fit, out, read));
+        rows.putAll(writeTreated(selected, fit.plan(), out, read));
       } catch (RuntimeException e) {
         awaitQuietly(tables, e);
         throw e;
@@ -105,8 +111,42 @@ public final class Job {
     Outputs.text(spark, out.staged("report.html"), HtmlReport.render(new HtmlReport.Inputs(record,
         fit.profile(), fit.plan(), fit.stats(), settings,
         SettingsLoader.differencesFromDefaults(args.config().map(java.nio.file.Path::of), args.sets()))));
+    publish(table, out, record);
+    return record;
+  }
+
+  private void publish(InputTable table, OutputLayout out, Map<String, Object> record) {
     boolean partial = args.where().isPresent() && !table.partitionColumns().isEmpty();
     out.publish(partial ? Set.of("treated", "quarantine") : Set.of(), RunRecord.marker(record));
+  }
+
+  /**
+   * {@code treat}: a saved plan applied as it is, with no pass over the data before the write; the
+   * plan used is published beside the treated rows, so the output says what was done to it.
+   */
+  private Map<String, Object> treatWithSavedPlan(String runId, Instant started, InputTable table,
+      InputTable selected, OutputLayout out) {
+    String file = args.plan().orElseThrow();
+    Plan plan = PlanFile.read(spark.sparkContext().hadoopConfiguration(), file);
+    List<String> fresh = PlanFile.check(plan, selected.wellFormed().schema(), file);
+    TreatedTable.checkNoCollisions(selected.wellFormed().schema(), plan);
+    if (!fresh.isEmpty()) {
+      say("columns the plan does not know pass through untouched: " + String.join(", ", fresh));
+    }
+    say("treating and writing " + args.output() + "/treated with the saved plan (no refitting)");
+    long t = System.nanoTime();
+    long read = selected.rowsRead().isPresent() ? selected.rowsRead().getAsLong() : selected.data().count();
+    Map<String, Object> rows = new LinkedHashMap<>();
+    rows.put("read", read);
+    rows.putAll(writeTreated(selected, plan, out, read));
+    Map<String, Double> seconds = new LinkedHashMap<>();
+    seconds.put("treat-and-write", (System.nanoTime() - t) / 1e9);
+    Outputs.json(spark, out.staged("plan.json"), plan);
+    Map<String, Object> record = RunRecord.of(runId, args, table, rows, seconds, started, spark);
+    record.put("plan_file", file);
+    record.put("columns_not_in_plan", fresh);
+    Outputs.json(spark, out.staged("run.json"), record);
+    publish(table, out, record);
     return record;
   }
 
@@ -161,9 +201,9 @@ public final class Job {
   }
 
   /** Treated and quarantined rows from one read of the input, counted, then cross-checked. */
-  private Map<String, Long> writeTreated(InputTable table, Sluice.Fit fit, OutputLayout out, long read) {
+  private Map<String, Long> writeTreated(InputTable table, Plan plan, OutputLayout out, long read) {
     TreatmentSplit split = TreatmentSplit.of(
-        table.data(), table.wellFormed().schema(), table.malformedColumn(), fit.plan());
+        table.data(), table.wellFormed().schema(), table.malformedColumn(), plan);
     if (split.quarantined().isPresent() && table.malformedColumn().isEmpty()) {
       split.base().persist(StorageLevel.MEMORY_AND_DISK());
     }

@@ -1,0 +1,112 @@
+package dev.sluice.cli;
+
+import static dev.sluice.cli.Runs.json;
+import static dev.sluice.cli.Runs.run;
+import static org.assertj.core.api.Assertions.assertThat;
+
+import com.fasterxml.jackson.databind.JsonNode;
+import dev.sluice.testing.SharedSpark;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import org.apache.spark.sql.Dataset;
+import org.apache.spark.sql.Row;
+import org.apache.spark.sql.SparkSession;
+import org.apache.spark.sql.functions;
+import org.junit.jupiter.api.BeforeAll;
+import org.junit.jupiter.api.Test;
+import org.junit.jupiter.api.TestInstance;
+import org.junit.jupiter.api.extension.ExtendWith;
+import org.junit.jupiter.api.io.TempDir;
+
+/**
+ * fit, then treat with the saved plan.json: the same treated rows as run with the same settings
+ * (reference: run itself), no refitting, and clear refusals for a plan that does not fit the table.
+ */
+@ExtendWith(SharedSpark.class)
+@TestInstance(TestInstance.Lifecycle.PER_CLASS)
+class SavedPlanTest {
+  private Path tmp;
+  private Path plan;
+
+  @BeforeAll
+  void fit(@TempDir Path dir) {
+    tmp = dir;
+    Path out = tmp.resolve("fit");
+    Runs.Result r = run("fit", "--input", "sample-parquet", "--output", out.toString(), "--config", "conf/sample.conf");
+    assertThat(r.code()).as(r.err()).isZero();
+    assertThat(out.resolve("treated")).doesNotExist();
+    plan = out.resolve("plan.json");
+    assertThat(plan).exists();
+  }
+
+  @Test
+  void treatWithTheSavedPlanGivesWhatRunGives(SparkSession spark) {
+    Path ran = tmp.resolve("run");
+    Path treated = tmp.resolve("treat");
+    assertThat(run("run", "--input", "sample-parquet", "--output", ran.toString(), "--config", "conf/sample.conf").code()).isZero();
+    Runs.Result r = run("treat", "--plan", plan.toString(), "--input", "sample-parquet", "--output", treated.toString());
+    assertThat(r.code()).as(r.err()).isZero();
+    assertThat(r.err()).contains("with the saved plan (no refitting)").doesNotContain("pass 1");
+    Dataset<Row> a = spark.read().parquet(treated.resolve("treated").toString());
+    Dataset<Row> b = spark.read().parquet(ran.resolve("treated").toString());
+    assertThat(a.count()).isEqualTo(b.count()).isEqualTo(20000);
+    assertThat(a.exceptAll(b).count()).isZero();
+    assertThat(b.exceptAll(a).count()).isZero();
+    assertThat(json(treated.resolve("plan.json"))).isEqualTo(json(plan));
+    JsonNode record = json(treated.resolve("run.json"));
+    assertThat(record.at("/rows/reconciled").asBoolean()).isTrue();
+    assertThat(record.at("/plan_file").asText()).isEqualTo(plan.toString());
+    assertThat(treated.resolve("_COMMITTED")).exists();
+  }
+
+  @Test
+  void aColumnThePlanTreatsMustBeThereAndNewOnesPassThrough(SparkSession spark) {
+    Dataset<Row> sample = spark.read().parquet("sample-parquet");
+    Path lacking = tmp.resolve("lacking");
+    sample.drop("energy_kwh").write().parquet(lacking.toString());
+    Runs.Result missing = run("treat", "--plan", plan.toString(), "--input", lacking.toString(),
+        "--output", tmp.resolve("out-lacking").toString());
+    assertThat(missing.code()).isEqualTo(3);
+    assertThat(missing.lastErrLine()).contains("The table lacks energy_kwh, which the plan").contains("treats");
+
+    Path wider = tmp.resolve("wider");
+    sample.withColumn("shift code", functions.lit("night")).write().parquet(wider.toString());
+    Path out = tmp.resolve("out-wider");
+    Runs.Result r = run("treat", "--plan", plan.toString(), "--input", wider.toString(), "--output", out.toString());
+    assertThat(r.code()).as(r.err()).isZero();
+    assertThat(r.err()).contains("columns the plan does not know pass through untouched: shift code");
+    assertThat(json(out.resolve("run.json")).at("/columns_not_in_plan/0").asText()).isEqualTo("shift code");
+    Dataset<Row> t = spark.read().parquet(out.resolve("treated").toString());
+    assertThat(t.filter(functions.col("`shift code`").equalTo("night")).count()).isEqualTo(20000);
+
+    Path retyped = tmp.resolve("retyped");
+    sample.withColumn("energy_kwh", functions.col("energy_kwh").cast("string")).write().parquet(retyped.toString());
+    Runs.Result changed = run("treat", "--plan", plan.toString(), "--input", retyped.toString(),
+        "--output", tmp.resolve("out-retyped").toString());
+    assertThat(changed.code()).isEqualTo(3);
+    assertThat(changed.lastErrLine()).contains("energy_kwh (double when fitted, string now)");
+  }
+
+  @Test
+  void onlyAPlanOfThisFormatIsApplied() throws Exception {
+    Path old = tmp.resolve("old-plan.json");
+    Files.writeString(old, Files.readString(plan).replaceFirst("\"formatVersion\" : 1", "\"formatVersion\" : 99"));
+    Runs.Result r = run("treat", "--plan", old.toString(), "--input", "sample-parquet", "--output", tmp.resolve("o1").toString());
+    assertThat(r.code()).isEqualTo(2);
+    assertThat(r.lastErrLine()).contains("format version 99; this Sluice applies version 1");
+    Path notJson = tmp.resolve("notes.txt");
+    Files.writeString(notJson, "fences: 1.5 IQR");
+    Runs.Result bad = run("treat", "--plan", notJson.toString(), "--input", "sample-parquet", "--output", tmp.resolve("o2").toString());
+    assertThat(bad.code()).isEqualTo(2);
+    assertThat(bad.lastErrLine()).contains("is not JSON");
+    Path foreign = tmp.resolve("foreign.json");
+    Files.writeString(foreign, Files.readString(plan).replaceFirst("\"rowsFitted\"", "\"rowsSeen\""));
+    Runs.Result odd = run("treat", "--plan", foreign.toString(), "--input", "sample-parquet", "--output", tmp.resolve("o3").toString());
+    assertThat(odd.code()).isEqualTo(2);
+    assertThat(odd.lastErrLine()).contains("not a plan this Sluice can apply");
+    assertThat(run("treat", "--plan", plan.toString(), "--config", "conf/sample.conf", "--input", "sample-parquet",
+        "--output", tmp.resolve("o4").toString()).lastErrLine()).contains("takes its settings from the plan");
+    assertThat(run("run", "--plan", plan.toString(), "--input", "sample-parquet",
+        "--output", tmp.resolve("o5").toString()).code()).isEqualTo(2);
+  }
+}
