@@ -10,7 +10,9 @@ import java.util.Optional;
  *
  * @param command run, survey, fit, treat or help
  * @param sets the {@code --set KEY=VALUE} overrides, in order (a later one wins)
- * @param plan the saved plan that {@code treat} applies (empty for the other commands)
+ * @param plan the saved plan that {@code treat} applies and {@code explain} shows
+ * @param sql explain as one SQL SELECT rather than as text
+ * @param table the table that SELECT reads
  */
 public record Arguments(
     String command,
@@ -21,7 +23,9 @@ public record Arguments(
     List<String> sets,
     Optional<String> where,
     boolean replace,
-    Optional<String> plan) {
+    Optional<String> plan,
+    boolean sql,
+    String table) {
 
   public static final String USAGE = String.join("\n",
       "Usage:",
@@ -31,6 +35,7 @@ public record Arguments(
       "                [--where PREDICATE] [--replace]",
       "  sluice fit    (the same options as survey)",
       "  sluice treat  --plan FILE --input PATH [--format ...] --output DIR [--where PREDICATE] [--replace]",
+      "  sluice explain --plan FILE [--sql [--table NAME]]",
       "  sluice --help",
       "",
       "  run     profile the table, decide the treatment plan, treat it and write treated/,",
@@ -52,7 +57,10 @@ public record Arguments(
       "",
       "Exit codes: 0 success, 1 unexpected failure, 2 bad usage or config, 3 bad input.");
 
-  private static final String COMMANDS = "run, survey, fit or treat";
+  private static final String COMMANDS = "run, survey, fit, treat or explain";
+
+  /** The table name explain --sql selects from when --table is not given. */
+  public static final String DEFAULT_TABLE = "source_table";
 
   public static Arguments parse(String[] args) {
     if (args.length == 0) {
@@ -61,6 +69,9 @@ public record Arguments(
     String command = args[0];
     if (command.equals("--help") || command.equals("-h") || command.equals("help")) {
       return help();
+    }
+    if (command.equals("explain")) {
+      return explain(args);
     }
     if (!List.of("run", "survey", "fit", "treat").contains(command)) {
       throw SluiceException.usage("Unknown command " + command + "; expected " + COMMANDS + " (see sluice --help)");
@@ -114,12 +125,45 @@ public record Arguments(
     if (command.equals("treat") && (config.isPresent() || !sets.isEmpty())) {
       throw SluiceException.usage("treat takes its settings from the plan; --config and --set do not apply");
     }
-    return new Arguments(command, input, format, output, config, List.copyOf(sets), where, replace, plan);
+    return new Arguments(command, input, format, output, config, List.copyOf(sets), where, replace, plan,
+        false, null);
+  }
+
+  /** explain --plan FILE [--sql] [--table NAME]. */
+  private static Arguments explain(String[] args) {
+    Optional<String> plan = Optional.empty();
+    boolean sql = false;
+    String table = null;
+    for (int i = 1; i < args.length; i++) {
+      String a = args[i];
+      if (a.equals("--sql")) {
+        sql = true;
+        continue;
+      }
+      if (a.equals("--help") || a.equals("-h")) {
+        return help();
+      }
+      String value = valueOf(args, i);
+      i++;
+      switch (a) {
+        case "--plan" -> plan = Optional.of(value);
+        case "--table" -> table = value;
+        default -> throw SluiceException.usage("Unknown option " + a + " for explain (see sluice --help)");
+      }
+    }
+    if (plan.isEmpty()) {
+      throw SluiceException.usage("explain needs --plan FILE: the plan.json of an earlier run, survey or fit");
+    }
+    if (table != null && !sql) {
+      throw SluiceException.usage("--table names the table of the SQL; it goes with --sql");
+    }
+    return new Arguments("explain", null, Optional.empty(), null, Optional.empty(), List.of(),
+        Optional.empty(), false, plan, sql, table == null ? DEFAULT_TABLE : table);
   }
 
   private static Arguments help() {
     return new Arguments("help", null, Optional.empty(), null, Optional.empty(), List.of(),
-        Optional.empty(), false, Optional.empty());
+        Optional.empty(), false, Optional.empty(), false, null);
   }
 
   private static String valueOf(String[] args, int i) {

@@ -3,6 +3,10 @@ package dev.sluice.cli;
 import dev.sluice.SluiceException;
 import dev.sluice.config.Settings;
 import dev.sluice.config.SettingsLoader;
+import dev.sluice.io.PlanFile;
+import dev.sluice.plan.Plan;
+import dev.sluice.plan.PlanText;
+import dev.sluice.treat.PlanSql;
 import java.io.PrintStream;
 import java.nio.file.Path;
 import java.util.Map;
@@ -32,6 +36,16 @@ public final class Main {
       Arguments args = Arguments.parse(argv);
       if (args.command().equals("help")) {
         out.println(Arguments.USAGE);
+        return 0;
+      }
+      if (args.command().equals("explain")) {
+        Plan plan = PlanFile.read(new org.apache.hadoop.conf.Configuration(), args.plan().orElseThrow());
+        if (!args.sql()) {
+          out.print(PlanText.of(plan));
+          return 0;
+        }
+        spark = session(SettingsLoader.load(java.util.Optional.empty(), java.util.List.of()));
+        out.print(PlanSql.select(spark, plan, args.table()));
         return 0;
       }
       Settings settings = SettingsLoader.load(args.config().map(Path::of), args.sets());

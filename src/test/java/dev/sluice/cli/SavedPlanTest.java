@@ -88,6 +88,33 @@ class SavedPlanTest {
   }
 
   @Test
+  void explainPrintsThePlanAndItsSqlGivesTheRowsTreatGives(SparkSession spark) {
+    Runs.Result text = run("explain", "--plan", plan.toString());
+    assertThat(text.code()).as(text.err()).isZero();
+    assertThat(text.out()).contains("air_temp_c (double, treat)", "validity: from -40.0 to 40.0; values outside: set-missing",
+        "outliers: iqr, both: flag below", "pallet_id (string, identifier)", "suggested to drop: gross_weight_lb");
+    // A plan that quarantines rows: the SELECT's WHERE leaves out what treat quarantines.
+    Path fitted = tmp.resolve("fit-quarantine");
+    assertThat(run("fit", "--input", "sample-parquet", "--output", fitted.toString(), "--config", "conf/sample.conf",
+        "--set", "columns.rel_humidity_pct.invalid-action=quarantine").code()).isZero();
+    Path quarantinePlan = fitted.resolve("plan.json");
+    Path treated = tmp.resolve("treat-quarantine");
+    assertThat(run("treat", "--plan", quarantinePlan.toString(), "--input", "sample-parquet",
+        "--output", treated.toString()).code()).isZero();
+    Runs.Result sql = run("explain", "--plan", quarantinePlan.toString(), "--sql", "--table", "pallet checks");
+    assertThat(sql.code()).as(sql.err()).isZero();
+    assertThat(sql.out()).startsWith("SELECT").contains("FROM `pallet checks`").contains("WHERE");
+    spark.read().parquet("sample-parquet").createOrReplaceTempView("`pallet checks`");
+    Dataset<Row> viaSql = spark.sql(sql.out());
+    Dataset<Row> viaTreat = spark.read().parquet(treated.resolve("treated").toString()).select(
+        java.util.Arrays.stream(viaSql.columns()).map(c -> functions.col("`" + c + "`")).toArray(org.apache.spark.sql.Column[]::new));
+    assertThat(viaSql.count()).isEqualTo(viaTreat.count()).isEqualTo(20000 - 113);
+    assertThat(viaSql.exceptAll(viaTreat).count()).isZero();
+    assertThat(viaTreat.exceptAll(viaSql).count()).isZero();
+    assertThat(run("explain", "--table", "t", "--plan", plan.toString()).lastErrLine()).contains("goes with --sql");
+  }
+
+  @Test
   void onlyAPlanOfThisFormatIsApplied() throws Exception {
     Path old = tmp.resolve("old-plan.json");
     Files.writeString(old, Files.readString(plan).replaceFirst("\"formatVersion\" : 1", "\"formatVersion\" : 99"));

@@ -1,0 +1,90 @@
+package dev.sluice.plan;
+
+import java.util.ArrayList;
+import java.util.List;
+import java.util.Locale;
+
+/** A plan as text for people (explain): each column's steps in the order of treatment, then collinearity. */
+public final class PlanText {
+  private PlanText() {}
+
+  public static String of(Plan plan) {
+    StringBuilder b = new StringBuilder();
+    b.append("Plan format ").append(plan.formatVersion()).append(", fitted on ").append(plan.rowsFitted())
+        .append(" rows; quartiles ").append(plan.quantileMethod()).append(".\n")
+        .append("Each treated column goes through: validity bounds, outliers, missing values, scaling.\n");
+    for (ColumnPlan cp : plan.columns()) {
+      b.append('\n').append(cp.name()).append(" (").append(cp.type()).append(", ").append(cp.role()).append(")\n");
+      if (!cp.treated()) {
+        b.append("  written unchanged\n");
+        continue;
+      }
+      if (!cp.kept()) {
+        b.append("  dropped: ").append(cp.dropReason()).append('\n');
+        continue;
+      }
+      if (cp.kind().equals("numeric")) {
+        b.append("  validity: ").append(validity(cp)).append('\n');
+        b.append("  outliers: ").append(outliers(cp.outliers())).append('\n');
+      }
+      b.append("  missing: ").append(missing(cp.missing())).append('\n');
+      if (cp.kind().equals("numeric")) {
+        b.append("  scaling: ").append(cp.scaling().active()
+            ? cp.scaling().method() + ", (x - " + num(cp.scaling().centre()) + ") / " + num(cp.scaling().scale())
+            : "none").append('\n');
+      }
+    }
+    CollinearityFindings f = plan.collinearity();
+    b.append("\ncollinearity: ").append(f.status());
+    if (!f.pairs().isEmpty()) {
+      List<String> pairs = new ArrayList<>();
+      for (CollinearityFindings.PairFinding p : f.pairs()) {
+        pairs.add(p.a() + " ~ " + p.b() + " (r " + num(p.pearson()) + ")");
+      }
+      b.append("; pairs with |r| >= ").append(num(f.pairThreshold())).append(": ").append(String.join(", ", pairs));
+    }
+    if (!f.suggestedDrops().isEmpty()) {
+      b.append("; suggested to drop: ").append(String.join(", ", f.suggestedDrops()))
+          .append(f.dropped().isEmpty() ? " (kept)" : " (dropped)");
+    }
+    return b.append('\n').toString();
+  }
+
+  private static String validity(ColumnPlan cp) {
+    if (cp.validMin() == null && cp.validMax() == null) {
+      return "no bounds";
+    }
+    String range = cp.validMax() == null ? "at least " + num(cp.validMin())
+        : cp.validMin() == null ? "at most " + num(cp.validMax())
+        : "from " + num(cp.validMin()) + " to " + num(cp.validMax());
+    return range + "; values outside: " + cp.invalidAction();
+  }
+
+  private static String outliers(OutlierPlan o) {
+    if (!o.active()) {
+      return o.method() + ", no limits applied (" + o.reason() + ")";
+    }
+    return o.method() + ", " + o.direction() + ": " + o.action() + " below " + num(o.lower()) + " / above "
+        + num(o.upper()) + " (" + o.reason() + ")";
+  }
+
+  private static String missing(MissingPlan m) {
+    if (m.dropColumn()) {
+      return "column dropped (" + m.reason() + ")";
+    }
+    if (m.fillNumber() != null) {
+      return m.strategy() + ", fill " + num(m.fillNumber());
+    }
+    if (m.fillText() != null) {
+      return m.strategy() + ", fill \"" + m.fillText() + "\"";
+    }
+    return m.strategy() + (m.quarantine() ? " (a missing value sends the row to quarantine)" : "");
+  }
+
+  private static String num(Double v) {
+    if (v == null) {
+      return "none";
+    }
+    return Double.isNaN(v) ? "NaN" : String.format(Locale.ROOT, "%s", v);
+  }
+}
