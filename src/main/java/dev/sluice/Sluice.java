@@ -3,12 +3,15 @@ package dev.sluice;
 import dev.sluice.config.Role;
 import dev.sluice.config.Settings;
 import dev.sluice.config.SettingsLoader;
+import dev.sluice.io.PlanFile;
 import dev.sluice.plan.OutlierPlan;
 import dev.sluice.plan.Plan;
 import dev.sluice.plan.Planner;
 import dev.sluice.plan.TreatedStats;
 import dev.sluice.profile.Profiler;
 import dev.sluice.profile.TableProfile;
+import dev.sluice.report.Outputs;
+import dev.sluice.report.SummaryTable;
 import dev.sluice.treat.TreatedStatsPass;
 import dev.sluice.treat.TreatedTable;
 import dev.sluice.treat.TreatmentSplit;
@@ -20,6 +23,7 @@ import java.util.Map;
 import java.util.function.Consumer;
 import org.apache.spark.sql.Dataset;
 import org.apache.spark.sql.Row;
+import org.apache.spark.sql.SparkSession;
 
 /**
  * The Java API: fit a plan on a table, then apply it. Fitting reads the table twice (the profile,
@@ -88,6 +92,27 @@ public final class Sluice {
     return split.quarantined().orElseGet(() -> data.limit(0)
         .withColumn(TreatmentSplit.WORK, TreatedTable.reasons(plan, Optional.empty()))
         .select(TreatedTable.quarantineProjection(data.schema()).toArray(new Column[0])));
+  }
+
+  /**
+   * The quality summary of a fit, one row per column, with the columns of summary/ and
+   * summary.csv (a small DataFrame built on the driver; no pass over the data).
+   */
+  public static Dataset<Row> summary(SparkSession spark, Fit fit) {
+    return Outputs.dataset(spark, SummaryTable.COLUMNS, SummaryTable.rows(fit.profile(), fit.plan(), fit.stats()));
+  }
+
+  /** Writes a plan as plan.json (sorted keys, stable), on any Hadoop file system. */
+  public static void writePlan(SparkSession spark, Plan plan, String file) {
+    Outputs.json(spark, file, plan);
+  }
+
+  /**
+   * Reads a plan.json back for {@link #treat}; refuses a missing file, another format version or
+   * unknown fields with a {@link SluiceException}.
+   */
+  public static Plan readPlan(SparkSession spark, String file) {
+    return PlanFile.read(spark.sparkContext().hadoopConfiguration(), file);
   }
 
   /** Configured columns exist and their settings fit their types, before any Spark job. */

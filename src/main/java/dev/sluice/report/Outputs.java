@@ -17,6 +17,7 @@ import java.util.List;
 import java.util.Map;
 import org.apache.hadoop.fs.FileSystem;
 import org.apache.hadoop.fs.Path;
+import org.apache.spark.sql.Dataset;
 import org.apache.spark.sql.Row;
 import org.apache.spark.sql.RowFactory;
 import org.apache.spark.sql.SaveMode;
@@ -43,12 +44,17 @@ public final class Outputs {
   /** Writes {@code rows} as a one-file Parquet table at {@code dir} (replacing it). */
   public static void parquet(SparkSession spark, String dir, Map<String, Class<?>> columns,
       List<Map<String, Object>> rows) {
-    StructType schema = schemaOf(columns);
+    dataset(spark, columns, rows).coalesce(1).write().mode(SaveMode.Overwrite).parquet(dir);
+  }
+
+  /** {@code rows} as a small DataFrame with the given columns, in their order. */
+  public static Dataset<Row> dataset(SparkSession spark, Map<String, Class<?>> columns,
+      List<Map<String, Object>> rows) {
     List<Row> data = new ArrayList<>();
     for (Map<String, Object> r : rows) {
       data.add(RowFactory.create(columns.keySet().stream().map(r::get).toArray()));
     }
-    spark.createDataFrame(data, schema).coalesce(1).write().mode(SaveMode.Overwrite).parquet(dir);
+    return spark.createDataFrame(data, schemaOf(columns));
   }
 
   static StructType schemaOf(Map<String, Class<?>> columns) {

@@ -65,6 +65,20 @@ class LaunchScriptsTest {
   }
 
   @Test
+  void savedPlanExampleFitsAWindowThenTreatsADayWithoutSettings() throws Exception {
+    Ran fit = script("daily-with-saved-plan.sh", Map.of(), "fit", "2026-10-01", "2026-10-28");
+    assertThat(fit.code()).as(fit.out()).isZero();
+    assertThat(fit.out()).contains("fit --input hdfs:///lake/pallet_checks --output hdfs:///plans/pallet_checks",
+        "BETWEEN\\ DATE\\'2026-10-01\\'\\ AND\\ DATE\\'2026-10-28\\'", "--config sample.conf");
+    Ran treat = script("daily-with-saved-plan.sh", Map.of("SLUICE_CONFIG", "conf/sample.conf"), "treat", "2026-11-30");
+    assertThat(treat.code()).as(treat.out()).isZero();
+    assertThat(treat.out()).contains("treat --plan hdfs:///plans/pallet_checks/plan.json", "DATE\\'2026-11-30\\'")
+        .doesNotContain("--config").doesNotContain("--files");
+    assertThat(script("daily-with-saved-plan.sh", Map.of(), "treat", "tomorrow").code()).isEqualTo(2);
+    assertThat(script("daily-with-saved-plan.sh", Map.of(), "refit").code()).isEqualTo(2);
+  }
+
+  @Test
   void dailyExampleTreatsOneDayAndRefusesAMalformedDay() throws Exception {
     Ran r = script("daily-example.sh", Map.of(), "2026-11-30");
     assertThat(r.code()).as(r.out()).isZero();
