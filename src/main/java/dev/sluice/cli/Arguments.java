@@ -13,6 +13,7 @@ import java.util.Optional;
  * @param plan the saved plan that {@code treat} applies and {@code explain} shows
  * @param sql explain as one SQL SELECT rather than as text
  * @param table the table that SELECT reads
+ * @param skipMissing treat: leave out the plan's columns that the table lacks instead of failing
  */
 public record Arguments(
     String command,
@@ -25,7 +26,8 @@ public record Arguments(
     boolean replace,
     Optional<String> plan,
     boolean sql,
-    String table) {
+    String table,
+    boolean skipMissing) {
 
   public static final String USAGE = String.join("\n",
       "Usage:",
@@ -35,6 +37,7 @@ public record Arguments(
       "                [--where PREDICATE] [--replace]",
       "  sluice fit    (the same options as survey)",
       "  sluice treat  --plan FILE --input PATH [--format ...] --output DIR [--where PREDICATE] [--replace]",
+      "                [--skip-missing-columns]",
       "  sluice explain --plan FILE [--sql [--table NAME]]",
       "  sluice --help",
       "",
@@ -54,6 +57,7 @@ public record Arguments(
       "                   with partitioned output only the partitions written are replaced",
       "  --replace        allow an output directory that holds files not written by Sluice",
       "  --plan FILE      the plan.json of an earlier run, survey or fit (treat only)",
+      "  --skip-missing-columns  treat: leave out the plan's columns the table lacks (default: exit 3)",
       "",
       "Exit codes: 0 success, 1 unexpected failure, 2 bad usage or config, 3 bad input.");
 
@@ -88,6 +92,7 @@ public record Arguments(
     Optional<String> where = Optional.empty();
     Optional<String> plan = Optional.empty();
     boolean replace = false;
+    boolean skipMissing = false;
     for (int i = 1; i < args.length; i++) {
       String a = args[i];
       if (a.equals("--help") || a.equals("-h")) {
@@ -95,6 +100,10 @@ public record Arguments(
       }
       if (a.equals("--replace")) {
         replace = true;
+        continue;
+      }
+      if (a.equals("--skip-missing-columns")) {
+        skipMissing = true;
         continue;
       }
       String value = valueOf(args, i);
@@ -125,8 +134,11 @@ public record Arguments(
     if (command.equals("treat") && (config.isPresent() || !sets.isEmpty())) {
       throw SluiceException.usage("treat takes its settings from the plan; --config and --set do not apply");
     }
+    if (skipMissing && !command.equals("treat")) {
+      throw SluiceException.usage("--skip-missing-columns is for treat only");
+    }
     return new Arguments(command, input, format, output, config, List.copyOf(sets), where, replace, plan,
-        false, null);
+        false, null, skipMissing);
   }
 
   /** explain --plan FILE [--sql] [--table NAME]. */
@@ -158,12 +170,12 @@ public record Arguments(
       throw SluiceException.usage("--table names the table of the SQL; it goes with --sql");
     }
     return new Arguments("explain", null, Optional.empty(), null, Optional.empty(), List.of(),
-        Optional.empty(), false, plan, sql, table == null ? DEFAULT_TABLE : table);
+        Optional.empty(), false, plan, sql, table == null ? DEFAULT_TABLE : table, false);
   }
 
   private static Arguments help() {
     return new Arguments("help", null, Optional.empty(), null, Optional.empty(), List.of(),
-        Optional.empty(), false, Optional.empty(), false, null);
+        Optional.empty(), false, Optional.empty(), false, null, false);
   }
 
   private static String valueOf(String[] args, int i) {

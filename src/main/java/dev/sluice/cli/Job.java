@@ -127,11 +127,15 @@ public final class Job {
   private Map<String, Object> treatWithSavedPlan(String runId, Instant started, InputTable table,
       InputTable selected, OutputLayout out) {
     String file = args.plan().orElseThrow();
-    Plan plan = PlanFile.read(spark.sparkContext().hadoopConfiguration(), file);
-    List<String> fresh = PlanFile.check(plan, selected.wellFormed().schema(), file);
+    PlanFile.Fitting fitting = PlanFile.check(PlanFile.read(spark.sparkContext().hadoopConfiguration(), file),
+        selected.wellFormed().schema(), file, args.skipMissing());
+    Plan plan = fitting.plan();
     TreatedTable.checkNoCollisions(selected.wellFormed().schema(), plan);
-    if (!fresh.isEmpty()) {
-      say("columns the plan does not know pass through untouched: " + String.join(", ", fresh));
+    if (!fitting.notInPlan().isEmpty()) {
+      say("columns the plan does not know pass through untouched: " + String.join(", ", fitting.notInPlan()));
+    }
+    if (!fitting.skipped().isEmpty()) {
+      say("columns of the plan the table lacks, left out: " + String.join(", ", fitting.skipped()));
     }
     say("treating and writing " + args.output() + "/treated with the saved plan (no refitting)");
     long t = System.nanoTime();
@@ -144,7 +148,8 @@ public final class Job {
     Outputs.json(spark, out.staged("plan.json"), plan);
     Map<String, Object> record = RunRecord.of(runId, args, table, rows, seconds, started, spark);
     record.put("plan_file", file);
-    record.put("columns_not_in_plan", fresh);
+    record.put("columns_not_in_plan", fitting.notInPlan());
+    record.put("plan_columns_skipped", fitting.skipped());
     Outputs.json(spark, out.staged("run.json"), record);
     publish(table, out, record);
     return record;

@@ -69,31 +69,42 @@ public final class PlanFile {
   }
 
   /**
-   * Checks that {@code schema} has every column the plan treats, of the same kind (numeric or
-   * not); returns the table's columns the plan does not know, which pass through untouched.
+   * How a plan fits a table.
+   *
+   * @param plan the plan to apply: as read, or without the columns the table lacks when skipped
+   * @param notInPlan the table's columns the plan does not know (they pass through untouched)
+   * @param skipped the plan's treated columns the table lacks, left out (only when skipping)
    */
-  public static List<String> check(Plan plan, StructType schema, String file) {
+  public record Fitting(Plan plan, List<String> notInPlan, List<String> skipped) {}
+
+  /**
+   * Checks that {@code schema} has every column the plan treats, of the same kind (numeric or
+   * not). A lacking column fails with exit 3 unless {@code skipMissing}; a changed kind always does.
+   */
+  public static Fitting check(Plan plan, StructType schema, String file, boolean skipMissing) {
     Map<String, DataType> types = new HashMap<>();
     for (StructField f : schema.fields()) {
       types.put(f.name(), f.dataType());
     }
     List<String> missing = new ArrayList<>();
     List<String> changed = new ArrayList<>();
+    List<ColumnPlan> present = new ArrayList<>();
     for (ColumnPlan cp : plan.columns()) {
       DataType t = types.get(cp.name());
       if (t == null) {
         if (cp.treated() && cp.kept()) {
-          missing.add(shown(cp.name()));
+          missing.add(cp.name());
         }
         continue;
       }
+      present.add(cp);
       if (cp.treated() && cp.kind().equals("numeric") != Batches.numeric(t)) {
         changed.add(shown(cp.name()) + " (" + cp.type() + " when fitted, " + t.simpleString() + " now)");
       }
     }
-    if (!missing.isEmpty()) {
-      throw SluiceException.input("The table lacks " + String.join(", ", missing)
-          + ", which the plan " + file + " treats");
+    if (!missing.isEmpty() && !skipMissing) {
+      throw SluiceException.input("The table lacks " + String.join(", ", missing.stream().map(PlanFile::shown).toList())
+          + ", which the plan " + file + " treats (--skip-missing-columns leaves them out)");
     }
     if (!changed.isEmpty()) {
       throw SluiceException.input("Column(s) changed kind since the plan " + file + " was fitted: "
@@ -106,7 +117,9 @@ public final class PlanFile {
         fresh.add(f.name());
       }
     }
-    return fresh;
+    Plan applied = missing.isEmpty() ? plan : new Plan(plan.formatVersion(), plan.rowsFitted(),
+        plan.quantileMethod(), plan.rankError(), List.copyOf(present), plan.collinearity());
+    return new Fitting(applied, fresh, missing);
   }
 
   /** A column name as messages show it: plain when it is a simple word, else in quotes. */

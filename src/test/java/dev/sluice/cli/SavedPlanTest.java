@@ -68,6 +68,12 @@ class SavedPlanTest {
         "--output", tmp.resolve("out-lacking").toString());
     assertThat(missing.code()).isEqualTo(3);
     assertThat(missing.lastErrLine()).contains("The table lacks energy_kwh, which the plan").contains("treats");
+    Path skippedOut = tmp.resolve("out-skipped");
+    Runs.Result skipped = run("treat", "--plan", plan.toString(), "--input", lacking.toString(),
+        "--output", skippedOut.toString(), "--skip-missing-columns");
+    assertThat(skipped.code()).as(skipped.err()).isZero();
+    assertThat(json(skippedOut.resolve("run.json")).at("/plan_columns_skipped/0").asText()).isEqualTo("energy_kwh");
+    assertThat(json(skippedOut.resolve("run.json")).at("/rows/reconciled").asBoolean()).isTrue();
 
     Path wider = tmp.resolve("wider");
     sample.withColumn("shift code", functions.lit("night")).write().parquet(wider.toString());
