@@ -44,7 +44,7 @@ class CommandLineTest {
   void noCommandIsAUsageError() {
     Result r = run();
     assertThat(r.code()).isEqualTo(2);
-    assertThat(r.err().strip()).isEqualTo("sluice: No command given; expected run or survey (see sluice --help)");
+    assertThat(r.err().strip()).isEqualTo("sluice: No command given; expected run, survey, fit, treat or explain (see sluice --help)");
   }
 
   @Test

@@ -229,7 +229,7 @@ class ConfigTest {
   @Test
   void commandNamesAreCaseSensitive() {
     Corpus.Result r = Corpus.run("Run", "--input", checks.toString(), "--output", out().toString());
-    assertRefusedAtOnce(r, 2, "Unknown command Run; expected run or survey (see sluice --help)", out());
+    assertRefusedAtOnce(r, 2, "Unknown command Run; expected run, survey, fit, treat or explain (see sluice --help)", out());
   }
 
   @Test
