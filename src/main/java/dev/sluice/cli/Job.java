@@ -6,12 +6,12 @@ import static org.apache.spark.sql.functions.lit;
 import dev.sluice.SluiceException;
 import dev.sluice.Sluice;
 import dev.sluice.config.Settings;
+import dev.sluice.config.SettingsLoader;
 import dev.sluice.io.InputTable;
 import dev.sluice.io.OutputLayout;
 import dev.sluice.io.PlanFile;
-import dev.sluice.plan.Plan;
 import dev.sluice.io.TableReader;
-import dev.sluice.config.SettingsLoader;
+import dev.sluice.plan.Plan;
 import dev.sluice.report.CorrelationTable;
 import dev.sluice.report.HtmlReport;
 import dev.sluice.report.Outputs;
@@ -42,9 +42,10 @@ import scala.concurrent.Await;
 import scala.concurrent.duration.Duration;
 
 /**
- * One run of {@code survey} or {@code run}: read, fit, (treat and write), then the summary,
- * correlations, plan and run record, all staged, reconciled, and published with the completion
- * marker last. Reads like an outline; each step lives in its package.
+ * One run of {@code survey}, {@code fit} or {@code run}: read, fit, (treat and write), then the
+ * summary, correlations, plan, run record and report, all staged, reconciled, and published with
+ * the completion marker last; or of {@code treat}: read, apply a saved plan, write. Reads like an
+ * outline; each step lives in its package.
  */
 public final class Job {
   static final String HUGE_METHOD_LIMIT = "spark.sql.codegen.hugeMethodLimit";
@@ -121,8 +122,9 @@ public final class Job {
   }
 
   /**
-   * {@code treat}: a saved plan applied as it is, with no pass over the data before the write; the
-   * plan used is published beside the treated rows, so the output says what was done to it.
+   * {@code treat}: a saved plan applied as it is, without refitting (only the row count is read
+   * before the write); the plan used is published beside the treated rows, so the output says
+   * what was done to it.
    */
   private Map<String, Object> treatWithSavedPlan(String runId, Instant started, InputTable table,
       InputTable selected, OutputLayout out) {

@@ -24,7 +24,7 @@ public final class PlanText {
         continue;
       }
       if (cp.kind().equals("numeric")) {
-        b.append("  validity: ").append(validity(cp)).append('\n');
+        b.append("  validity: ").append(validity(cp, PlanText::num)).append('\n');
         b.append("  outliers: ").append(outliers(cp.outliers())).append('\n');
       }
       b.append("  missing: ").append(missing(cp.missing())).append('\n');
@@ -50,13 +50,14 @@ public final class PlanText {
     return b.append('\n').toString();
   }
 
-  private static String validity(ColumnPlan cp) {
+  /** The validity bounds of a column in words, its numbers written by {@code num}. */
+  public static String validity(ColumnPlan cp, java.util.function.Function<Double, String> num) {
     if (cp.validMin() == null && cp.validMax() == null) {
       return "no bounds";
     }
-    String range = cp.validMax() == null ? "at least " + num(cp.validMin())
-        : cp.validMin() == null ? "at most " + num(cp.validMax())
-        : "from " + num(cp.validMin()) + " to " + num(cp.validMax());
+    String range = cp.validMax() == null ? "at least " + num.apply(cp.validMin())
+        : cp.validMin() == null ? "at most " + num.apply(cp.validMax())
+        : "from " + num.apply(cp.validMin()) + " to " + num.apply(cp.validMax());
     return range + "; values outside: " + cp.invalidAction();
   }
 

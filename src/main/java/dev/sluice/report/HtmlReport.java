@@ -10,6 +10,7 @@ import dev.sluice.plan.CollinearityFindings;
 import dev.sluice.plan.ColumnPlan;
 import dev.sluice.plan.OutlierPlan;
 import dev.sluice.plan.Plan;
+import dev.sluice.plan.PlanText;
 import dev.sluice.plan.TreatedStats;
 import dev.sluice.profile.ColumnProfile;
 import dev.sluice.profile.TableProfile;
@@ -251,7 +252,7 @@ public final class HtmlReport {
       b.append("</table>");
       return;
     }
-    b.append("<tr><th>validity</th><td>").append(validity(cp)).append("</td></tr>");
+    b.append("<tr><th>validity</th><td>").append(esc(PlanText.validity(cp, Html::num))).append("</td></tr>");
     OutlierPlan o = cp.outliers();
     b.append("<tr><th>outliers</th><td>").append(esc(o.method())).append(", ").append(esc(o.direction()))
         .append(", action ").append(esc(o.action()));
@@ -291,16 +292,6 @@ public final class HtmlReport {
           .append(num(after.mean())).append(", standard deviation ").append(num(after.stddev())).append("</td></tr>");
     }
     b.append("</table>");
-  }
-
-  private static String validity(ColumnPlan cp) {
-    if (cp.validMin() == null && cp.validMax() == null) {
-      return "no bounds";
-    }
-    String range = cp.validMax() == null ? "at least " + num(cp.validMin())
-        : cp.validMin() == null ? "at most " + num(cp.validMax())
-        : "from " + num(cp.validMin()) + " to " + num(cp.validMax());
-    return range + "; values outside: " + esc(cp.invalidAction());
   }
 
   private static void missing(StringBuilder b, Inputs in) {
