@@ -6,6 +6,8 @@ import dev.sluice.stats.NumericSteps;
 import dev.sluice.stats.OrderWindows;
 import dev.sluice.stats.RowSample;
 import dev.sluice.stats.ScaledMoments;
+import java.util.ArrayList;
+import java.util.List;
 import org.apache.spark.sql.catalyst.InternalRow;
 import org.apache.spark.sql.types.DataType;
 import org.apache.spark.sql.vectorized.ColumnVector;
@@ -57,6 +59,15 @@ final class ProfileAccumulator implements RowScan.Accumulator<ProfileAccumulator
   private transient double[][] batchValues;
   private transient boolean[][] batchNulls;
   private transient Batches.Tally tally;
+  /** Most distinct sets of columns missing together that are counted before giving up. */
+  static final int PATTERNS = 10_000;
+  /** Per tracked column (table order): its measured index, or -1 for a categorical column. */
+  final int[] trackedMeasured;
+  /** Per tracked column: its column index when categorical, else -1. */
+  final int[] trackedCategorical;
+  /** Rows by the set of tracked columns that are null in them (a bit mask), rows with none left out. */
+  final HashedCounts<Long> together;
+  private transient long[] batchMasks;
 
   /**
    * @param validity per measured column (projection order), its validity bounds
@@ -110,6 +121,37 @@ final class ProfileAccumulator implements RowScan.Accumulator<ProfileAccumulator
     }
     this.sample = sampled.length >= 2 && sampleRows > 0 ? new RowSample(sampleRows, sampled.length) : null;
     this.early = early == null ? null : early.emptyCopy();
+    int[] measuredIndex = new int[n];
+    java.util.Arrays.fill(measuredIndex, -1);
+    for (int j = 0; j < layout.measured; j++) {
+      measuredIndex[layout.measuredAt[j]] = j;
+    }
+    List<int[]> tracked = new ArrayList<>();
+    for (int i = 0; i < n && tracked.size() < TableProfile.TOGETHER_COLUMNS; i++) {
+      if (measuredIndex[i] >= 0) {
+        tracked.add(new int[] {measuredIndex[i], -1});
+      } else if (layout.reads[i] == ProfileLayout.Read.CATEGORICAL) {
+        tracked.add(new int[] {-1, i});
+      }
+    }
+    this.trackedMeasured = tracked.stream().mapToInt(t -> t[0]).toArray();
+    this.trackedCategorical = tracked.stream().mapToInt(t -> t[1]).toArray();
+    this.together = new HashedCounts<>(PATTERNS);
+  }
+
+  /** The names of the tracked columns, bit 0 first. */
+  List<String> trackedNames() {
+    List<String> out = new ArrayList<>();
+    for (int s = 0; s < trackedMeasured.length; s++) {
+      out.add(layout.names[trackedMeasured[s] >= 0 ? layout.measuredAt[trackedMeasured[s]] : trackedCategorical[s]]);
+    }
+    return out;
+  }
+
+  private void countTogether(long mask) {
+    if (mask != 0 && !together.increment(mask)) {
+      together.insert(mask, mask);
+    }
   }
 
   /** The cut for a sample of {@code sampleRows} out of {@code rows}: see {@link #sampleCut}. */
@@ -156,6 +198,12 @@ final class ProfileAccumulator implements RowScan.Accumulator<ProfileAccumulator
         });
       }
     }
+    long mask = 0;
+    for (int s = 0; s < trackedMeasured.length; s++) {
+      int at = trackedMeasured[s] >= 0 ? trackedMeasured[s] : layout.at[trackedCategorical[s]];
+      mask |= row.isNullAt(at) ? 1L << s : 0L;
+    }
+    countTogether(mask);
     if (sample != null || early != null) {
       for (int s = 0; s < sampled.length; s++) {
         int j = sampled[s];
@@ -232,6 +280,7 @@ final class ProfileAccumulator implements RowScan.Accumulator<ProfileAccumulator
         }
       }
     }
+    togetherInBatch(batch, n);
     if (sample != null || early != null) {
       double[] row = sampleRow();
       for (int r = 0; r < n; r++) {
@@ -240,6 +289,37 @@ final class ProfileAccumulator implements RowScan.Accumulator<ProfileAccumulator
         }
         offerRow();
       }
+    }
+  }
+
+  /** The missing-together counts of a batch, from the measured columns' null flags of this batch. */
+  private void togetherInBatch(ColumnarBatch batch, int n) {
+    if (trackedMeasured.length == 0) {
+      return;
+    }
+    if (batchMasks == null || batchMasks.length < n) {
+      batchMasks = new long[Math.max(n, 4096)];
+    }
+    long[] masks = batchMasks;
+    java.util.Arrays.fill(masks, 0, n, 0L);
+    for (int s = 0; s < trackedMeasured.length; s++) {
+      long bit = 1L << s;
+      if (trackedMeasured[s] >= 0) {
+        boolean[] isNull = batchNulls[trackedMeasured[s]];
+        for (int r = 0; r < n; r++) {
+          masks[r] |= isNull[r] ? bit : 0L;
+        }
+      } else {
+        ColumnVector v = batch.column(layout.rawAt[trackedCategorical[s]]);
+        if (v.hasNull()) {
+          for (int r = 0; r < n; r++) {
+            masks[r] |= v.isNullAt(r) ? bit : 0L;
+          }
+        }
+      }
+    }
+    for (int r = 0; r < n; r++) {
+      countTogether(masks[r]);
     }
   }
 
@@ -324,6 +404,7 @@ final class ProfileAccumulator implements RowScan.Accumulator<ProfileAccumulator
     if (early != null) {
       early.merge(o.early);
     }
+    together.merge(o.together);
     return this;
   }
 }

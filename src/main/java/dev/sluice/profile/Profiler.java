@@ -115,7 +115,7 @@ public final class Profiler {
         acc.early == null ? null : acc.early.actions(), acc.early == null ? null : acc.early.bands(),
         kept.isEmpty() ? null : kept.get(0), acc.early != null && acc.early.overflowed);
     return new TableProfile(acc.rows, columns(data.sparkSession(), layout, acc, quartiles, mad),
-        sampleNames, acc.sample, pilotByName, quartiles, share);
+        sampleNames, acc.sample, pilotByName, quartiles, share, acc.trackedNames(), acc.together);
   }
 
   /** Each measured column's quartile search, and the windows of its first pass. */

@@ -1,5 +1,6 @@
 package dev.sluice.profile;
 
+import dev.sluice.stats.HashedCounts;
 import dev.sluice.stats.RankSearch;
 import dev.sluice.stats.RowSample;
 import java.util.List;
@@ -18,6 +19,10 @@ import java.util.Optional;
  * @param quartiles per measured column, its finished quartile search, which also gives the
  *     quartiles of the column under any order-keeping step such as capping
  * @param share what pass 1 gathered to spare pass 2, or null when it did not try
+ * @param togetherColumns the columns whose nulls {@code together} tracks (the first 64 numeric
+ *     and categorical columns in table order), bit 0 first
+ * @param together rows by the set of those columns that are null in them, as a bit mask (rows
+ *     with none left out); overflowed past 10,000 different sets
  */
 public record TableProfile(
     long rows,
@@ -26,7 +31,12 @@ public record TableProfile(
     RowSample sample,
     Map<String, double[]> pilot,
     Map<String, RankSearch> quartiles,
-    PassOneShare share) {
+    PassOneShare share,
+    List<String> togetherColumns,
+    HashedCounts<Long> together) {
+
+  /** Most columns whose nulls the missing-together counts track (one bit each in a long). */
+  public static final int TOGETHER_COLUMNS = 64;
 
   public Optional<ColumnProfile> column(String name) {
     return columns.stream().filter(c -> c.name().equals(name)).findFirst();

@@ -328,13 +328,43 @@ public final class HtmlReport {
     b.append("</section>\n");
   }
 
-  /** The most common sets of columns missing in the same row, from the deterministic row sample. */
+  /**
+   * The most common sets of columns missing in the same row: counted over every row in pass 1;
+   * estimated from the deterministic row sample only when those counts overflowed.
+   */
   private static void together(StringBuilder b, TableProfile profile) {
     b.append("<h3>Missing together</h3>");
-    if (profile.sample() == null || profile.sampleColumns().isEmpty()) {
-      b.append("<p>Not available: no row sample was kept (it is kept for the correlation analysis).</p>");
+    if (profile.together() != null && !profile.together().overflowed()) {
+      List<String> names = profile.togetherColumns();
+      List<Map.Entry<Long, Long>> top = profile.together().mostCommon(10);
+      b.append("<p>Counted over all ").append(profile.rows()).append(" rows, in ").append(names.size())
+          .append(" numeric and categorical column(s)").append(names.size() == TableProfile.TOGETHER_COLUMNS
+              ? " (the first " + TableProfile.TOGETHER_COLUMNS + " in table order)" : "").append(".</p>");
+      if (top.isEmpty()) {
+        b.append("<p>No row has a missing value in these columns.</p>");
+        return;
+      }
+      b.append("<table class=\"list\"><tr><th>columns missing in the same row</th><th>rows</th><th>share</th></tr>");
+      for (Map.Entry<Long, Long> e : top) {
+        List<String> gone = new ArrayList<>();
+        for (int s = 0; s < names.size(); s++) {
+          if ((e.getKey() & (1L << s)) != 0) {
+            gone.add(names.get(s));
+          }
+        }
+        b.append("<tr><td>").append(esc(String.join(", ", gone))).append("</td><td>").append(e.getValue())
+            .append("</td><td>").append(pct((double) e.getValue() / profile.rows())).append("</td></tr>");
+      }
+      b.append("</table>");
       return;
     }
+    if (profile.sample() == null || profile.sampleColumns().isEmpty()) {
+      b.append("<p>Not available: more than 10,000 different sets of columns are missing together, ")
+          .append("and no row sample was kept to estimate the most common.</p>");
+      return;
+    }
+    b.append("<p>More than 10,000 different sets of columns are missing together: the most common ")
+        .append("are estimated from a sample.</p>");
     double[][] rows = profile.sample().rows();
     long[] weights = profile.sample().weights();
     List<String> names = profile.sampleColumns();

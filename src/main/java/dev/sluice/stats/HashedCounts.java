@@ -166,6 +166,26 @@ public final class HashedCounts<V extends Comparable<? super V>> implements Seri
     return best < 0 ? 0 : counts[best];
   }
 
+  /**
+   * The {@code k} most frequent values with their counts, by count descending, ties to the
+   * smaller value; empty when overflowed.
+   */
+  @SuppressWarnings("unchecked")
+  public java.util.List<java.util.Map.Entry<V, Long>> mostCommon(int k) {
+    java.util.List<java.util.Map.Entry<V, Long>> all = new java.util.ArrayList<>();
+    if (overflowed) {
+      return all;
+    }
+    for (int i = 0; i < keys.length; i++) {
+      if (counts[i] != 0) {
+        all.add(java.util.Map.entry((V) values[i], counts[i]));
+      }
+    }
+    all.sort(java.util.Map.Entry.<V, Long>comparingByValue().reversed()
+        .thenComparing(java.util.Map.Entry.comparingByKey()));
+    return all.subList(0, Math.min(k, all.size()));
+  }
+
   @SuppressWarnings("unchecked")
   private int bestSlot() {
     if (overflowed) {

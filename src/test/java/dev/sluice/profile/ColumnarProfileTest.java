@@ -13,6 +13,7 @@ import java.util.Map;
 import org.apache.spark.sql.Dataset;
 import org.apache.spark.sql.Row;
 import org.apache.spark.sql.SparkSession;
+import org.apache.spark.sql.functions;
 import org.junit.jupiter.api.Test;
 import org.junit.jupiter.api.extension.ExtendWith;
 import org.junit.jupiter.api.io.TempDir;
@@ -70,6 +71,23 @@ class ColumnarProfileTest {
     // The checks above compare something: every kind of column was profiled.
     assertThat(columnar.column("label").orElseThrow().topValue()).isNotNull();
     assertThat(columnar.column("grade").orElseThrow().nulls()).isEqualTo(834);
+    // Rows by the set of columns null in them: the same on both paths, and as Spark's own
+    // group-by of the null flags counts them (reference).
+    assertThat(columnar.togetherColumns()).isEqualTo(rows.togetherColumns()).contains("gaps", "grade", "label");
+    assertThat(columnar.together().mostCommon(100)).isEqualTo(rows.together().mostCommon(100));
+    int gaps = columnar.togetherColumns().indexOf("gaps");
+    int grade = columnar.togetherColumns().indexOf("grade");
+    Map<Long, Long> expected = new HashMap<>();
+    for (Row r : data.groupBy(functions.col("gaps").isNull().as("g"), functions.col("grade").isNull().as("c"))
+        .count().collectAsList()) {
+      long mask = (r.getBoolean(0) ? 1L << gaps : 0L) | (r.getBoolean(1) ? 1L << grade : 0L);
+      if (mask != 0) {
+        expected.put(mask, r.getLong(2));
+      }
+    }
+    Map<Long, Long> counted = new HashMap<>();
+    columnar.together().mostCommon(100).forEach(e -> counted.put(e.getKey(), e.getValue()));
+    assertThat(counted).isEqualTo(expected).hasSize(3);
     assertThat(columnar.column("pallet").orElseThrow().distinct()).isEqualTo(5000);
     assertThat(columnar.column("odd").orElseThrow().nan()).isPositive();
     assertThat(columnar.column("day").orElseThrow().maxText()).isEqualTo("2026-10-28");

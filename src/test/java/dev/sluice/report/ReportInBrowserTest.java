@@ -59,7 +59,7 @@ class ReportInBrowserTest {
       assertThat(page.evaluate("document.querySelectorAll('svg.boxplot').length").asInt()).isEqualTo(9);
       assertThat(page.evaluate("document.querySelectorAll('svg.boxplot rect.box').length").asInt()).isEqualTo(18);
       assertThat(page.evaluate("document.body.innerText").asText())
-          .contains("not a system of record", "qualified person", "reconciled");
+          .contains("not a system of record", "qualified person", "reconciled", "Counted over all 20000 rows");
       BufferedImage shot = page.screenshot();
       Set<Integer> colours = new HashSet<>();
       long afterBoxes = 0;
