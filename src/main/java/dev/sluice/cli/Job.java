@@ -16,6 +16,7 @@ import dev.sluice.report.CorrelationTable;
 import dev.sluice.report.HtmlReport;
 import dev.sluice.report.Outputs;
 import dev.sluice.report.SummaryTable;
+import dev.sluice.treat.DriftPass;
 import dev.sluice.treat.TreatedTable;
 import dev.sluice.treat.TreatmentSplit;
 import java.io.PrintStream;
@@ -139,19 +140,26 @@ public final class Job {
     if (!fitting.skipped().isEmpty()) {
       say("columns of the plan the table lacks, left out: " + String.join(", ", fitting.skipped()));
     }
+    Map<String, Double> seconds = new LinkedHashMap<>();
+    say("measuring drift from the plan's fit-time figures (one pass)");
+    long d = System.nanoTime();
+    List<Map<String, Object>> drift = DriftPass.rows(DriftPass.measure(selected.wellFormed(), plan));
+    seconds.put("drift", (System.nanoTime() - d) / 1e9);
     say("treating and writing " + args.output() + "/treated with the saved plan (no refitting)");
     long t = System.nanoTime();
     long read = selected.rowsRead().isPresent() ? selected.rowsRead().getAsLong() : selected.data().count();
     Map<String, Object> rows = new LinkedHashMap<>();
     rows.put("read", read);
     rows.putAll(writeTreated(selected, plan, out, read));
-    Map<String, Double> seconds = new LinkedHashMap<>();
     seconds.put("treat-and-write", (System.nanoTime() - t) / 1e9);
     Outputs.json(spark, out.staged("plan.json"), plan);
+    Outputs.parquet(spark, out.staged("drift"), DriftPass.COLUMNS, drift);
+    Outputs.csv(spark, out.staged("drift.csv"), DriftPass.COLUMNS, drift);
     Map<String, Object> record = RunRecord.of(runId, args, table, rows, seconds, started, spark);
     record.put("plan_file", file);
     record.put("columns_not_in_plan", fitting.notInPlan());
     record.put("plan_columns_skipped", fitting.skipped());
+    record.put("drift", drift);
     Outputs.json(spark, out.staged("run.json"), record);
     publish(table, out, record);
     return record;

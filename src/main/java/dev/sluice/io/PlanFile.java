@@ -118,7 +118,7 @@ public final class PlanFile {
       }
     }
     Plan applied = missing.isEmpty() ? plan : new Plan(plan.formatVersion(), plan.rowsFitted(),
-        plan.quantileMethod(), plan.rankError(), List.copyOf(present), plan.collinearity());
+        plan.quantileMethod(), plan.rankError(), List.copyOf(present), plan.collinearity(), plan.fitted());
     return new Fitting(applied, fresh, missing);
   }
 

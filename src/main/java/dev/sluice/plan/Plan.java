@@ -11,6 +11,7 @@ import java.util.Optional;
  * @param rowsFitted rows of the table the plan was fitted on
  * @param quantileMethod exact-type7 (Hyndman and Fan type 7, exact)
  * @param rankError bound on the normalized rank error of the quantiles (0 when exact)
+ * @param fitted per treated column, by name, what it looked like at fit time (for drift)
  */
 public record Plan(
     int formatVersion,
@@ -18,9 +19,11 @@ public record Plan(
     String quantileMethod,
     double rankError,
     List<ColumnPlan> columns,
-    CollinearityFindings collinearity) {
+    CollinearityFindings collinearity,
+    java.util.SortedMap<String, FitFigures> fitted) {
 
-  public static final int FORMAT_VERSION = 1;
+  /** 2: with the fit-time figures that drift is measured against. */
+  public static final int FORMAT_VERSION = 2;
 
   public Optional<ColumnPlan> column(String name) {
     return columns.stream().filter(c -> c.name().equals(name)).findFirst();

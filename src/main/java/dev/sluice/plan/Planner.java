@@ -56,7 +56,41 @@ public final class Planner {
         any == null ? "none" : any.quantileMethod(),
         any == null ? 0.0 : any.rankError(),
         List.copyOf(finalColumns),
-        findings);
+        findings,
+        fitted(profile, finalColumns, stats));
+  }
+
+  /** The fit-time figures of every treated column (drift is measured against them). */
+  static java.util.SortedMap<String, FitFigures> fitted(TableProfile profile, List<ColumnPlan> columns,
+      TreatedStats stats) {
+    java.util.SortedMap<String, FitFigures> out = new java.util.TreeMap<>();
+    for (ColumnPlan cp : columns) {
+      ColumnProfile c = profile.column(cp.name()).orElse(null);
+      if (c == null || !cp.treated() || !cp.kept()) {
+        continue;
+      }
+      double nullRate = Published.round(c.nullRate());
+      if (!c.measured()) {
+        out.put(cp.name(), new FitFigures(nullRate, List.of(), null, null));
+        continue;
+      }
+      List<Double> edges = List.of(c.q1(), c.median(), c.q3());
+      List<Double> shares = null;
+      dev.sluice.stats.RankSearch search = profile.quartiles().get(cp.name());
+      if (search != null && c.usable() > 0 && !Double.isNaN(c.q1())) {
+        long[] below = {search.countBelow(c.q1()), search.countBelow(c.median()), search.countBelow(c.q3())};
+        if (below[0] >= 0 && below[1] >= 0 && below[2] >= 0) {
+          double n = c.usable();
+          shares = List.of(Published.round(below[0] / n), Published.round((below[1] - below[0]) / n),
+              Published.round((below[2] - below[1]) / n), Published.round((n - below[2]) / n));
+        }
+      }
+      TreatedStats.ColumnStats t = stats == null ? null : stats.columns().get(cp.name());
+      Double beyond = t == null || !cp.outliers().active() || c.usable() == 0 ? null
+          : Published.round((double) (t.belowLimit() + t.aboveLimit()) / c.usable());
+      out.put(cp.name(), new FitFigures(nullRate, Double.isNaN(c.q1()) ? List.of() : edges, shares, beyond));
+    }
+    return out;
   }
 
   private static ColumnPlan column(

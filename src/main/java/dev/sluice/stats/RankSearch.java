@@ -321,6 +321,14 @@ public final class RankSearch {
     return passes;
   }
 
+  /**
+   * How many of the values are below {@code f}, exactly, from the last pass's windows; -1 when
+   * they cannot tell (f lies between windows, or the search did not run).
+   */
+  public long countBelow(double f) {
+    return lastPass == null ? -1 : lastPass.countBelow(f, false);
+  }
+
   /** Values counted by the first pass. */
   public long count() {
     return count;

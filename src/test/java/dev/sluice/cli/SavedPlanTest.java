@@ -3,6 +3,7 @@ package dev.sluice.cli;
 import static dev.sluice.cli.Runs.json;
 import static dev.sluice.cli.Runs.run;
 import static org.assertj.core.api.Assertions.assertThat;
+import static org.assertj.core.api.Assertions.within;
 
 import com.fasterxml.jackson.databind.JsonNode;
 import dev.sluice.testing.SharedSpark;
@@ -121,12 +122,46 @@ class SavedPlanTest {
   }
 
   @Test
+  void driftIsNilOnTheFittedTableAndShowsWhenTheDataMoves(SparkSession spark) {
+    Path same = tmp.resolve("treat-same");
+    assertThat(run("treat", "--plan", plan.toString(), "--input", "sample-parquet", "--output", same.toString()).code()).isZero();
+    JsonNode drift = json(same.resolve("run.json")).get("drift");
+    assertThat(drift).isNotEmpty();
+    for (JsonNode d : drift) {
+      assertThat(d.get("null_rate_now").asDouble()).as(d.toString()).isCloseTo(d.get("null_rate_fit").asDouble(), within(1e-11));
+      if (d.hasNonNull("psi")) {
+        assertThat(d.get("psi").asDouble()).as(d.toString()).isLessThan(1e-9);
+      }
+      if (d.hasNonNull("beyond_share_fit")) {
+        assertThat(d.get("beyond_share_now").asDouble()).isCloseTo(d.get("beyond_share_fit").asDouble(), within(1e-11));
+      }
+    }
+    assertThat(same.resolve("drift.csv")).exists();
+    // The same table with dwell times doubled and a third of the energy readings lost.
+    Path moved = tmp.resolve("moved");
+    spark.read().parquet("sample-parquet")
+        .withColumn("dwell_hours", functions.col("dwell_hours").multiply(2))
+        .withColumn("energy_kwh", functions.when(functions.hash(functions.col("pallet_id")).mod(3).equalTo(0),
+            functions.lit(null)).otherwise(functions.col("energy_kwh")))
+        .write().parquet(moved.toString());
+    Path out = tmp.resolve("treat-moved");
+    assertThat(run("treat", "--plan", plan.toString(), "--input", moved.toString(), "--output", out.toString()).code()).isZero();
+    java.util.Map<String, JsonNode> byColumn = new java.util.HashMap<>();
+    json(out.resolve("run.json")).get("drift").forEach(d -> byColumn.put(d.get("column").asText(), d));
+    assertThat(byColumn.get("dwell_hours").get("psi").asDouble()).isGreaterThan(0.25);
+    assertThat(byColumn.get("dwell_hours").get("beyond_share_now").asDouble())
+        .isGreaterThan(byColumn.get("dwell_hours").get("beyond_share_fit").asDouble());
+    assertThat(byColumn.get("energy_kwh").get("null_rate_now").asDouble()).isGreaterThan(0.3);
+    assertThat(byColumn.get("air_temp_c").get("psi").asDouble()).isLessThan(1e-9);
+  }
+
+  @Test
   void onlyAPlanOfThisFormatIsApplied() throws Exception {
     Path old = tmp.resolve("old-plan.json");
-    Files.writeString(old, Files.readString(plan).replaceFirst("\"formatVersion\" : 1", "\"formatVersion\" : 99"));
+    Files.writeString(old, Files.readString(plan).replaceFirst("\"formatVersion\" : 2", "\"formatVersion\" : 99"));
     Runs.Result r = run("treat", "--plan", old.toString(), "--input", "sample-parquet", "--output", tmp.resolve("o1").toString());
     assertThat(r.code()).isEqualTo(2);
-    assertThat(r.lastErrLine()).contains("format version 99; this Sluice applies version 1");
+    assertThat(r.lastErrLine()).contains("format version 99; this Sluice applies version 2");
     Path notJson = tmp.resolve("notes.txt");
     Files.writeString(notJson, "fences: 1.5 IQR");
     Runs.Result bad = run("treat", "--plan", notJson.toString(), "--input", "sample-parquet", "--output", tmp.resolve("o2").toString());
