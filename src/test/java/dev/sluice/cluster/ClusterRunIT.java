@@ -16,8 +16,11 @@ import java.util.Arrays;
 import java.util.List;
 import java.util.Map;
 import java.util.concurrent.atomic.AtomicLong;
+import java.util.concurrent.atomic.AtomicReference;
 import java.util.jar.JarEntry;
 import java.util.jar.JarOutputStream;
+import java.util.regex.Matcher;
+import java.util.regex.Pattern;
 import java.util.stream.Stream;
 import org.apache.spark.sql.Dataset;
 import org.apache.spark.sql.Row;
@@ -98,18 +101,27 @@ class ClusterRunIT {
   void anExecutorKilledWhileTheRowsAreWrittenChangesNothing(SparkSession spark) throws Exception {
     Path out = dir.resolve("out-killed");
     AtomicLong killed = new AtomicLong(-1);
-    // Each write task waits 4 s before its first file, so that the kill lands in the writing pass.
+    AtomicReference<String> writeStage = new AtomicReference<>();
+    Pattern stage = Pattern.compile("Final stage: ResultStage (\\d+) \\(parquet at Job\\.java");
+    Pattern task = Pattern.compile("Starting task \\S+ in stage (\\d+)\\.\\d+ \\(TID \\d+\\) \\([^,]*,\\s*executor (\\d+),");
+    // Each write task waits 4 s before its first file; the executor running the first task of the
+    // writing stage is killed 1 s into that wait, so the kill lands in the middle of a write task.
     List<String> faults = List.of(
         "--conf", "spark.hadoop." + FaultyFileSystem.MATCH + "=/treated/",
         "--conf", "spark.hadoop." + FaultyFileSystem.SLOW_MS + "=4000");
     StandaloneCluster.Submitted run = cluster.submit("submit-killed",
         submitArgs(cluster.masterUrl(), FaultyFileSystem.SCHEME + "://" + out, faults), line -> {
-          if (line.contains("pass 3 of 3") && killed.get() < 0) {
-            killed.set(0);
+          Matcher s = stage.matcher(line);
+          if (s.find() && writeStage.get() == null) {
+            writeStage.set(s.group(1));
+          }
+          Matcher t = task.matcher(line);
+          if (t.find() && t.group(1).equals(writeStage.get()) && killed.compareAndSet(-1, 0)) {
+            String executor = t.group(2);
             Thread killer = new Thread(() -> {
               try {
-                Thread.sleep(1500);
-                killed.set(cluster.killOneExecutor());
+                Thread.sleep(1000);
+                killed.set(cluster.killExecutor(executor));
               } catch (InterruptedException e) {
                 Thread.currentThread().interrupt();
               }
@@ -118,6 +130,7 @@ class ClusterRunIT {
           }
         }, RUN_LIMIT);
     assertThat(run.code()).as(run.output()).isZero();
+    assertThat(writeStage.get()).as("the writing stage was seen").isNotNull();
     assertThat(killed.get()).as("an executor was killed during the writing pass").isPositive();
     // A task of the writing pass was running on it, and ran again elsewhere (Spark words this
     // either way, depending on which it notices first: the lost executor or the failed task).

@@ -140,17 +140,18 @@ final class StandaloneCluster implements AutoCloseable {
     }
   }
 
-  /** Kills one running executor JVM of this cluster and returns its process id. */
-  long killOneExecutor() {
+  /** Kills the running executor JVM with Spark's executor id {@code id}; returns its process id. */
+  long killExecutor(String id) {
     for (Process d : daemons) {
       for (ProcessHandle h : d.toHandle().descendants().toList()) {
-        if (h.info().commandLine().orElse("").contains("CoarseGrainedExecutorBackend")) {
+        String cmd = h.info().commandLine().orElse("");
+        if (cmd.contains("CoarseGrainedExecutorBackend") && cmd.matches(".*--executor-id " + id + "( .*|$)")) {
           h.destroyForcibly();
           return h.pid();
         }
       }
     }
-    throw new IllegalStateException("No executor is running");
+    throw new IllegalStateException("No executor " + id + " is running");
   }
 
   @Override
