@@ -20,6 +20,14 @@ public record ColumnSettings(
     MissingSettings missing,
     ScalingMethod scaling) {
 
+  /**
+   * True when a later step needs the quartiles of the values after the outlier step: filling by
+   * the median, or robust scaling.
+   */
+  public boolean usesTreatedQuartiles() {
+    return missing.strategy() == ImputeStrategy.MEDIAN || scaling == ScalingMethod.ROBUST;
+  }
+
   /** Settings whose incorrect entries become missing (the default). */
   public ColumnSettings(
       String name,

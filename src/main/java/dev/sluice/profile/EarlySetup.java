@@ -6,7 +6,6 @@ import dev.sluice.config.ImputeStrategy;
 import dev.sluice.config.OutlierMethod;
 import dev.sluice.config.OutlierSettings;
 import dev.sluice.config.Role;
-import dev.sluice.config.ScalingMethod;
 import dev.sluice.config.Settings;
 import dev.sluice.stats.CoMoments;
 import dev.sluice.stats.Fences;
@@ -129,8 +128,7 @@ final class EarlySetup {
     List<double[]> bands = new ArrayList<>(List.of(new double[] {in[0], in[1]},
         new double[] {in[2], in[3]}, new double[] {out[0], out[1]}, new double[] {out[2], out[3]}));
     boolean removes = assumedAction(cs.outliers()) == NumericSteps.Action.REMOVE;
-    if (removes && (cs.missing().strategy() == ImputeStrategy.MEDIAN
-        || cs.scaling() == ScalingMethod.ROBUST)) {
+    if (removes && cs.usesTreatedQuartiles()) {
       List<double[]> shifted = afterRemoval(usable, in, cs.outliers().direction(), expected);
       if (shifted == null) {
         return null;

@@ -1,6 +1,7 @@
 package dev.sluice.profile;
 
 import dev.sluice.stats.HashedCounts;
+import dev.sluice.stats.NumericSteps;
 import dev.sluice.stats.RankSearch;
 import dev.sluice.stats.RowSample;
 import java.util.List;
@@ -40,6 +41,17 @@ public record TableProfile(
 
   public Optional<ColumnProfile> column(String name) {
     return columns.stream().filter(c -> c.name().equals(name)).findFirst();
+  }
+
+  /**
+   * The quartiles of a measured column after validity and outlier steps that keep every value and
+   * its order (capping, flagging, keeping): exactly the pass-1 order statistics with the steps
+   * applied. Empty for steps that remove values, or a column with no quartile search.
+   */
+  public Optional<double[]> quartilesKeepingOrder(String name, NumericSteps steps) {
+    RankSearch search = quartiles.get(name);
+    return search == null || steps.removes() ? Optional.empty()
+        : Optional.of(search.quantiles(steps::afterOutliers));
   }
 
   /** The pilot's raw values of a measured column (empty when there was no pilot). */

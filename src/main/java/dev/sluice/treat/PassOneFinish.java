@@ -1,8 +1,6 @@
 package dev.sluice.treat;
 
 import dev.sluice.config.ColumnSettings;
-import dev.sluice.config.ImputeStrategy;
-import dev.sluice.config.ScalingMethod;
 import dev.sluice.config.Settings;
 import dev.sluice.plan.OutlierPlan;
 import dev.sluice.plan.TreatedStats;
@@ -111,8 +109,7 @@ final class PassOneFinish {
       return cannot("an outlier limit of column " + c.name() + " is outside pass 1's windows");
     }
     double[] q = {Double.NaN, Double.NaN, Double.NaN};
-    boolean needed = cs.missing().strategy() == ImputeStrategy.MEDIAN || cs.scaling() == ScalingMethod.ROBUST;
-    if (needed && m.count() > 0) {
+    if (cs.usesTreatedQuartiles() && m.count() > 0) {
       RankSearch search = profile.quartiles().get(c.name());
       if (steps.removes()) {
         Optional<double[]> shifted = afterRemoval(w, search, o.lower() == null ? 0 : beyond[4], m.count());
@@ -121,7 +118,7 @@ final class PassOneFinish {
         }
         q = shifted.get();
       } else {
-        q = search.quantiles(steps::afterOutliers);
+        q = profile.quartilesKeepingOrder(c.name(), steps).orElseThrow();
       }
     }
     return Optional.of(new TreatedStats.ColumnStats(m.count(), m.mean(), m.stddev(), m.min(), m.max(),

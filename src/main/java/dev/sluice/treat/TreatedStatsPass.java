@@ -2,7 +2,6 @@ package dev.sluice.treat;
 
 import dev.sluice.config.ColumnSettings;
 import dev.sluice.config.ImputeStrategy;
-import dev.sluice.config.ScalingMethod;
 import dev.sluice.config.Settings;
 import dev.sluice.plan.OutlierPlan;
 import dev.sluice.plan.TreatedStats;
@@ -65,7 +64,7 @@ public final class TreatedStatsPass {
     int searched = 0;
     for (ColumnProfile c : cols) {
       OutlierPlan o = outliers.get(c.name());
-      searched += needsQuartiles(settings.column(c.name())) && o.steps(null, null).removes() ? 1 : 0;
+      searched += settings.column(c.name()).usesTreatedQuartiles() && o.steps(null, null).removes() ? 1 : 0;
     }
     int maxHeld = settings.quantiles().heldPerWindow(QUARTILES.length * searched);
     List<Column> projection = new ArrayList<>();
@@ -90,7 +89,7 @@ public final class TreatedStatsPass {
       RankSearch search = new RankSearch(QUARTILES, maxHeld);
       searches.add(search);
       targets.add(new SearchPass.Target(k, steps[k], true, Double.NaN));
-      if (needsQuartiles(cs) && steps[k].removes()) {
+      if (cs.usesTreatedQuartiles() && steps[k].removes()) {
         double[] pilot = treatedPilot(profile.pilotOf(c.name()), steps[k]);
         long expected = profile.pilotOf(c.name()).length == 0 ? profile.rows()
             : (long) Math.ceil((double) profile.rows() * pilot.length / profile.pilotOf(c.name()).length);
@@ -145,10 +144,10 @@ public final class TreatedStatsPass {
    */
   private static double[] quartiles(ColumnProfile c, Settings settings, TableProfile profile,
       NumericSteps steps, RankSearch own, long present) {
-    if (!needsQuartiles(settings.column(c.name())) || present == 0) {
+    if (!settings.column(c.name()).usesTreatedQuartiles() || present == 0) {
       return new double[] {Double.NaN, Double.NaN, Double.NaN};
     }
-    return own != null ? own.quantiles() : profile.quartiles().get(c.name()).quantiles(steps::afterOutliers);
+    return own != null ? own.quantiles() : profile.quartilesKeepingOrder(c.name(), steps).orElseThrow();
   }
 
   /**
@@ -177,10 +176,6 @@ public final class TreatedStatsPass {
 
   private static double high(Double limit) {
     return limit == null ? Double.POSITIVE_INFINITY : limit;
-  }
-
-  private static boolean needsQuartiles(ColumnSettings cs) {
-    return cs.missing().strategy() == ImputeStrategy.MEDIAN || cs.scaling() == ScalingMethod.ROBUST;
   }
 
   /** The pilot's values after steps 2 and 3: where the quartile windows of this pass go. */
