@@ -15,7 +15,6 @@ import dev.sluice.plan.TreatedStats;
 import dev.sluice.profile.ColumnProfile;
 import dev.sluice.profile.TableProfile;
 import dev.sluice.stats.NumericSteps;
-import dev.sluice.stats.RankSearch;
 import java.util.ArrayList;
 import java.util.Comparator;
 import java.util.LinkedHashMap;
@@ -40,6 +39,9 @@ public final class HtmlReport {
   /** Width of the figures, in pixels. */
   static final int WIDTH = 720;
   private static final int LABEL = 150;
+  /** Height of one row of a bar chart, and where its bars start. */
+  private static final int BAR_ROW = 20;
+  private static final int BAR_X0 = 220;
 
   private HtmlReport() {}
 
@@ -179,9 +181,7 @@ public final class HtmlReport {
     int height = 26 + 40 * plots.size() + 24;
     BoxPlot.Scale s = BoxPlot.Scale.covering(plots, LABEL, WIDTH - 20);
     StringBuilder b = new StringBuilder();
-    b.append("<svg class=\"boxplot\" role=\"img\" width=\"").append(WIDTH).append("\" height=\"").append(height)
-        .append("\" viewBox=\"0 0 ").append(WIDTH).append(' ').append(height).append("\"><title>Box plots of ")
-        .append(esc(c.name())).append("</title>");
+    svgOpen(b, "boxplot", WIDTH, height, "Box plots of " + c.name());
     double y = 34;
     for (BoxPlot p : plots) {
       b.append(p.svg(s, y, p.label()));
@@ -218,12 +218,9 @@ public final class HtmlReport {
     if (!Double.isNaN(after.q1())) {
       return new double[] {after.q1(), after.median(), after.q3()};
     }
-    RankSearch search = in.profile().quartiles().get(c.name());
     NumericSteps steps = cp.outliers().steps(cp.validMin(), cp.validMax());
-    if (search != null && !steps.removes()) {
-      return search.quantiles(steps::afterOutliers);
-    }
-    return new double[] {Double.NaN, Double.NaN, Double.NaN};
+    return in.profile().quartilesKeepingOrder(c.name(), steps)
+        .orElse(new double[] {Double.NaN, Double.NaN, Double.NaN});
   }
 
   private static void axis(StringBuilder b, BoxPlot.Scale s, double y) {
@@ -299,29 +296,20 @@ public final class HtmlReport {
     b.append("<section id=\"missing\"><h2>Missing values</h2>");
     b.append("<p>Null rate of each column (nulls among the rows read). The mark on each bar is the ")
         .append("column's drop threshold (<code>missing.drop-null-rate</code>): a column above it is dropped.</p>");
-    int rowH = 20;
-    int height = 10 + rowH * cols.size() + 20;
-    int x0 = 220;
+    int height = 10 + BAR_ROW * cols.size() + 20;
+    int x0 = BAR_X0;
     int x1 = WIDTH - 70;
-    b.append("<svg class=\"bars\" role=\"img\" width=\"").append(WIDTH).append("\" height=\"").append(height)
-        .append("\" viewBox=\"0 0 ").append(WIDTH).append(' ').append(height).append("\"><title>Null rate per column</title>");
+    svgOpen(b, "bars", WIDTH, height, "Null rate per column");
     double y = 10;
     for (ColumnProfile c : cols) {
       double rate = c.nullRate();
       double threshold = in.settings().column(c.name()).missing().dropNullRate();
       boolean over = !Double.isNaN(rate) && rate > threshold;
-      b.append("<text class=\"rowlabel\" x=\"").append(x0 - 8).append("\" y=\"").append(xy(y + 13))
-          .append("\" text-anchor=\"end\">").append(esc(clip(c.name()))).append("<title>").append(esc(c.name()))
-          .append("</title></text>");
-      b.append("<rect class=\"").append(over ? "bar over" : "bar").append("\" x=\"").append(x0).append("\" y=\"")
-          .append(xy(y + 3)).append("\" width=\"").append(xy(Double.isNaN(rate) ? 0 : rate * (x1 - x0)))
-          .append("\" height=\"").append(rowH - 6).append("\"/>");
+      barRow(b, y, x0, Double.isNaN(rate) ? 0 : rate * (x1 - x0), c.name(), over, x1 + 6, pct(rate));
       double tx = x0 + Math.min(1.0, threshold) * (x1 - x0);
       b.append("<line class=\"limit\" x1=\"").append(xy(tx)).append("\" y1=\"").append(xy(y + 1)).append("\" x2=\"")
-          .append(xy(tx)).append("\" y2=\"").append(xy(y + rowH - 1)).append("\"/>");
-      b.append("<text class=\"value\" x=\"").append(x1 + 6).append("\" y=\"").append(xy(y + 13)).append("\">")
-          .append(pct(rate)).append(over ? " (over)" : "").append("</text>");
-      y += rowH;
+          .append(xy(tx)).append("\" y2=\"").append(xy(y + BAR_ROW - 1)).append("\"/>");
+      y += BAR_ROW;
     }
     b.append("</svg>");
     together(b, in.profile());
@@ -476,9 +464,7 @@ public final class HtmlReport {
     int w = left + n * cell + 90;
     int h = top + n * cell + 40;
     StringBuilder b = new StringBuilder();
-    b.append("<svg class=\"heatmap\" role=\"img\" width=\"").append(w).append("\" height=\"").append(h)
-        .append("\" viewBox=\"0 0 ").append(w).append(' ').append(h).append("\"><title>").append(esc(what))
-        .append(" between the treated columns</title>");
+    svgOpen(b, "heatmap", w, h, what + " between the treated columns");
     for (int a = 0; a < n; a++) {
       String name = names.get(shown.get(a));
       b.append("<text class=\"rowlabel\" x=\"").append(left - 6).append("\" y=\"").append(xy(top + a * cell + cell / 2.0 + 4))
@@ -539,33 +525,49 @@ public final class HtmlReport {
 
   private static String vifBars(CollinearityFindings f) {
     int p = f.columns().size();
-    int rowH = 20;
-    int x0 = 220;
+    int x0 = BAR_X0;
     int x1 = WIDTH - 90;
     double cap = Math.max(2 * f.vifLimit(), 1);
-    int height = 10 + rowH * p + 24;
+    int height = 10 + BAR_ROW * p + 24;
     StringBuilder b = new StringBuilder();
-    b.append("<svg class=\"bars\" role=\"img\" width=\"").append(WIDTH).append("\" height=\"").append(height)
-        .append("\" viewBox=\"0 0 ").append(WIDTH).append(' ').append(height).append("\"><title>VIF per column</title>");
+    svgOpen(b, "bars", WIDTH, height, "VIF per column");
     double y = 10;
     for (int i = 0; i < p; i++) {
       Double vif = f.vif().isEmpty() ? null : f.vif().get(i);
       double v = vif == null ? Double.NaN : vif;
       boolean over = !Double.isNaN(v) && v > f.vifLimit();
-      b.append("<text class=\"rowlabel\" x=\"").append(x0 - 8).append("\" y=\"").append(xy(y + 13))
-          .append("\" text-anchor=\"end\">").append(esc(clip(f.columns().get(i)))).append("</text>");
       double len = Double.isNaN(v) ? 0 : Math.min(v, cap) / cap * (x1 - x0);
-      b.append("<rect class=\"").append(over ? "bar over" : "bar").append("\" x=\"").append(x0).append("\" y=\"")
-          .append(xy(y + 3)).append("\" width=\"").append(xy(len)).append("\" height=\"").append(rowH - 6).append("\"/>");
-      b.append("<text class=\"value\" x=\"").append(xy(x0 + len + 6)).append("\" y=\"").append(xy(y + 13)).append("\">")
-          .append(Double.isNaN(v) ? "undefined" : num(v)).append(over ? " (over)" : "").append("</text>");
-      y += rowH;
+      barRow(b, y, x0, len, f.columns().get(i), over, x0 + len + 6, Double.isNaN(v) ? "undefined" : num(v));
+      y += BAR_ROW;
     }
     double lx = x0 + f.vifLimit() / cap * (x1 - x0);
     b.append("<line class=\"limit\" x1=\"").append(xy(lx)).append("\" y1=\"6\" x2=\"").append(xy(lx)).append("\" y2=\"")
         .append(xy(y)).append("\"/><text class=\"tick\" x=\"").append(xy(lx)).append("\" y=\"").append(xy(y + 14))
         .append("\" text-anchor=\"middle\">limit ").append(num(f.vifLimit())).append("</text></svg>");
     return b.toString();
+  }
+
+  /** The opening tag of a figure, with its size and the title that screen readers announce. */
+  private static void svgOpen(StringBuilder b, String css, int w, int h, String title) {
+    b.append("<svg class=\"").append(css).append("\" role=\"img\" width=\"").append(w).append("\" height=\"")
+        .append(h).append("\" viewBox=\"0 0 ").append(w).append(' ').append(h).append("\"><title>")
+        .append(esc(title)).append("</title>");
+  }
+
+  /**
+   * One row of a bar chart at {@code y}: the column's name, its bar from {@code x0} (orange when
+   * over its limit) and the value as text at {@code valueX}, with "(over)" spelt out beside colour.
+   */
+  private static void barRow(StringBuilder b, double y, int x0, double length, String name, boolean over,
+      double valueX, String value) {
+    b.append("<text class=\"rowlabel\" x=\"").append(x0 - 8).append("\" y=\"").append(xy(y + 13))
+        .append("\" text-anchor=\"end\">").append(esc(clip(name))).append("<title>").append(esc(name))
+        .append("</title></text>");
+    b.append("<rect class=\"").append(over ? "bar over" : "bar").append("\" x=\"").append(x0).append("\" y=\"")
+        .append(xy(y + 3)).append("\" width=\"").append(xy(length)).append("\" height=\"").append(BAR_ROW - 6)
+        .append("\"/>");
+    b.append("<text class=\"value\" x=\"").append(xy(valueX)).append("\" y=\"").append(xy(y + 13)).append("\">")
+        .append(esc(value)).append(over ? " (over)" : "").append("</text>");
   }
 
   private static void kv(StringBuilder b, String key, Object value) {
