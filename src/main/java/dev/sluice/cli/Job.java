@@ -123,9 +123,9 @@ public final class Job {
   }
 
   /**
-   * {@code treat}: a saved plan applied as it is, without refitting (only the row count is read
-   * before the write); the plan used is published beside the treated rows, so the output says
-   * what was done to it.
+   * {@code treat}: a saved plan applied as it is, without refitting (one aggregate pass measures
+   * drift, and counts the rows, before the write); the plan used is published beside the treated
+   * rows, so the output says what was done to it.
    */
   private Map<String, Object> treatWithSavedPlan(String runId, Instant started, InputTable table,
       InputTable selected, OutputLayout out) {
@@ -143,11 +143,15 @@ public final class Job {
     Map<String, Double> seconds = new LinkedHashMap<>();
     say("measuring drift from the plan's fit-time figures (one pass)");
     long d = System.nanoTime();
-    List<Map<String, Object>> drift = DriftPass.rows(DriftPass.measure(selected.wellFormed(), plan));
+    DriftPass.Measured measured = DriftPass.measure(selected.wellFormed(), plan);
+    List<Map<String, Object>> drift = DriftPass.rows(measured.columns());
     seconds.put("drift", (System.nanoTime() - d) / 1e9);
     say("treating and writing " + args.output() + "/treated with the saved plan (no refitting)");
     long t = System.nanoTime();
-    long read = selected.rowsRead().isPresent() ? selected.rowsRead().getAsLong() : selected.data().count();
+    // The drift pass counted the rows; malformed CSV lines are outside it, so they need the read's count.
+    long read = selected.rowsRead().isPresent() ? selected.rowsRead().getAsLong()
+        : measured.rows().isPresent() && selected.malformedColumn().isEmpty() ? measured.rows().getAsLong()
+        : selected.data().count();
     Map<String, Object> rows = new LinkedHashMap<>();
     rows.put("read", read);
     rows.putAll(writeTreated(selected, plan, out, read));

@@ -110,7 +110,7 @@ public final class PlanFile {
       throw SluiceException.input("Column(s) changed kind since the plan " + file + " was fitted: "
           + String.join(", ", changed));
     }
-    List<String> known = plan.columns().stream().map(ColumnPlan::name).toList();
+    java.util.Set<String> known = new java.util.HashSet<>(plan.columns().stream().map(ColumnPlan::name).toList());
     List<String> fresh = new ArrayList<>();
     for (StructField f : schema.fields()) {
       if (!known.contains(f.name())) {

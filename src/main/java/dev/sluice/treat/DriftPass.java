@@ -41,13 +41,22 @@ public final class DriftPass {
   public record Drift(String column, double nullRateFit, double nullRateNow, double beyondShareFit,
       double beyondShareNow, double psi) {}
 
-  /** The drift of every column the plan has fit-time figures for, in plan order. */
-  public static List<Drift> measure(Dataset<Row> data, Plan plan) {
+  /**
+   * What one pass measured.
+   *
+   * @param rows the rows of the table, counted by the same pass; empty when there was nothing to
+   *     measure and so no pass
+   * @param columns the drift of every column the plan has fit-time figures for, in plan order
+   */
+  public record Measured(java.util.OptionalLong rows, List<Drift> columns) {}
+
+  public static Measured measure(Dataset<Row> data, Plan plan) {
     List<ColumnPlan> cols = new ArrayList<>();
     List<Column> aggs = new ArrayList<>();
+    java.util.Set<String> present = new java.util.HashSet<>(List.of(data.columns()));
     for (ColumnPlan cp : plan.columns()) {
       FitFigures f = plan.fitted().get(cp.name());
-      if (f == null || !List.of(data.columns()).contains(cp.name())) {
+      if (f == null || !present.contains(cp.name())) {
         continue;
       }
       cols.add(cp);
@@ -62,7 +71,7 @@ public final class DriftPass {
       }
     }
     if (cols.isEmpty()) {
-      return List.of();
+      return new Measured(java.util.OptionalLong.empty(), List.of());
     }
     Row r = data.agg(count(lit(1)), aggs.toArray(new Column[0])).first();
     long rows = r.getLong(0);
@@ -90,7 +99,7 @@ public final class DriftPass {
       out.add(new Drift(cp.name(), f.nullRate(), nullNow,
           f.beyondShare() == null ? Double.NaN : f.beyondShare(), beyondNow, psi));
     }
-    return out;
+    return new Measured(java.util.OptionalLong.of(rows), out);
   }
 
   private static long value(Row r, int i) {
