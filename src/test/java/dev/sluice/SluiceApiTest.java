@@ -6,6 +6,7 @@ import static org.assertj.core.api.Assertions.assertThatThrownBy;
 import dev.sluice.config.Settings;
 import dev.sluice.config.SettingsLoader;
 import dev.sluice.plan.Plan;
+import dev.sluice.testing.Fixtures;
 import dev.sluice.testing.SharedSpark;
 import java.nio.file.Path;
 import java.util.List;
@@ -46,8 +47,7 @@ class SluiceApiTest {
     Plan back = Sluice.readPlan(spark, file);
     assertThat(back).isEqualTo(fit.plan());
     Dataset<Row> again = Sluice.treat(checks, back);
-    assertThat(again.exceptAll(treated).count()).isZero();
-    assertThat(treated.exceptAll(again).count()).isZero();
+    Fixtures.assertSameRows(again, treated);
     assertThatThrownBy(() -> Sluice.readPlan(spark, tmp.resolve("none.json").toString()))
         .isInstanceOf(SluiceException.class).hasMessageContaining("does not exist");
   }

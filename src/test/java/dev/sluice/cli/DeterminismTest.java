@@ -4,6 +4,7 @@ import static dev.sluice.cli.Runs.json;
 import static dev.sluice.cli.Runs.run;
 import static org.assertj.core.api.Assertions.assertThat;
 
+import dev.sluice.testing.Fixtures;
 import dev.sluice.testing.SharedSpark;
 import java.nio.file.Files;
 import java.nio.file.Path;
@@ -48,8 +49,7 @@ class DeterminismTest {
         .isEqualTo(Files.readString(outOne.resolve("correlations.csv")));
     Dataset<Row> a = spark.read().parquet(outOne.resolve("treated").toString());
     Dataset<Row> b = spark.read().parquet(outSeven.resolve("treated").toString());
-    assertThat(a.exceptAll(b).count()).isZero();
-    assertThat(b.exceptAll(a).count()).isZero();
+    Fixtures.assertSameRows(a, b);
   }
 
   private static String[] concat(String[] a, String[] b) {

@@ -5,6 +5,7 @@ import static dev.sluice.cli.Runs.run;
 import static org.assertj.core.api.Assertions.assertThat;
 
 import com.fasterxml.jackson.databind.JsonNode;
+import dev.sluice.testing.Fixtures;
 import dev.sluice.testing.SharedSpark;
 import java.nio.file.Files;
 import java.nio.file.Path;
@@ -92,8 +93,7 @@ class PublishTest {
     assertThat(run(cmd).code()).isZero();
     Dataset<Row> second = spark.read().parquet(out.resolve("treated").toString());
     assertThat(second.count()).isEqualTo(200);
-    assertThat(first.exceptAll(second).count()).isZero();
-    assertThat(second.exceptAll(first).count()).isZero();
+    Fixtures.assertSameRows(first, second);
     assertThat(json(out.resolve("plan.json")).toString()).isEqualTo(plan);
   }
 

@@ -45,6 +45,12 @@ public final class Fixtures {
   }
 
   /** reference.conf with the given KEY=VALUE overrides (keys without the sluice. prefix). */
+  /** The same rows, as multisets: none of either is missing from the other (Spark's exceptAll). */
+  public static void assertSameRows(Dataset<Row> a, Dataset<Row> b) {
+    org.assertj.core.api.Assertions.assertThat(a.exceptAll(b).count()).as("rows only in the first").isZero();
+    org.assertj.core.api.Assertions.assertThat(b.exceptAll(a).count()).as("rows only in the second").isZero();
+  }
+
   public static Settings settings(String... overrides) {
     return SettingsLoader.load(Optional.empty(), List.of(overrides));
   }
