@@ -10,7 +10,9 @@
 # Settings (environment): SLUICE_INPUT (hdfs:///lake/pallet_checks), SLUICE_OUTPUT
 # (hdfs:///clean/pallet_checks), SLUICE_PLAN_DIR (hdfs:///plans/pallet_checks; the plan is
 # plan.json in it), SLUICE_CONFIG for the fit (conf/sample.conf), and every setting of
-# submit-yarn.sh. Reruns of a day replace that day's partition only.
+# submit-yarn.sh. Reruns of a day replace that day's partition only. Exit code 4 means the day
+# passed a gate limit kept in the plan (by default a marked drift, see conf/sample.conf): the
+# day's treated rows are then under $SLUICE_OUTPUT/held/ for review, not in treated/.
 set -euo pipefail
 HERE="$(cd "$(dirname "${BASH_SOURCE[0]}")" && pwd)"
 INPUT="${SLUICE_INPUT:-hdfs:///lake/pallet_checks}"
@@ -35,7 +37,7 @@ case "${1:-}" in
   treat)
     DAY="${2:-$(date -d yesterday +%F)}"
     day "$DAY"
-    # The settings are the plan's: no settings file goes with treat.
+    # The settings are the plan's, gates included: no settings file goes with treat.
     SLUICE_CONFIG= exec "$HERE/submit-yarn.sh" treat --plan "$PLANS/plan.json" \
       --input "$INPUT" --output "$OUTPUT" --where "check_date = DATE'$DAY'"
     ;;

@@ -13,6 +13,8 @@ public class SluiceException extends RuntimeException {
     USAGE(2),
     /** Missing or unreadable input: exit 3. */
     INPUT(3),
+    /** The data passed a gate limit: exit 4 (the outputs are published, the treated ones held back by default). */
+    GATES(4),
     /** A check inside the job failed: exit 1. */
     INTERNAL(1);
 

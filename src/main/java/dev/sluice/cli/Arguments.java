@@ -37,7 +37,7 @@ public record Arguments(
       "                [--where PREDICATE] [--replace]",
       "  sluice fit    (the same options as survey)",
       "  sluice treat  --plan FILE --input PATH [--format ...] --output DIR [--where PREDICATE] [--replace]",
-      "                [--skip-missing-columns]",
+      "                [--skip-missing-columns] [--config FILE] [--set KEY=VALUE]... (gates, limits and spark only)",
       "  sluice explain --plan FILE [--sql [--table NAME]]",
       "  sluice --help",
       "",
@@ -46,8 +46,8 @@ public record Arguments(
       "  survey  the same without treated data",
       "  fit     the same as survey: fits the plan.json that treat applies later",
       "  treat   apply a saved plan.json to a table without refitting: treated/, quarantine/,",
-      "          the plan used, drift against the fit and run.json under DIR (settings come from",
-      "          the plan, not --config)",
+      "          the plan used, a summary of drift against the fit and run.json under DIR (the",
+      "          treatment comes from the plan; --config and --set may only change the gates)",
       "  explain print a saved plan as text, or with --sql as one Spark SQL SELECT that applies it",
       "          to the table NAME (default source_table)",
       "",
@@ -62,7 +62,8 @@ public record Arguments(
       "  --plan FILE      the plan.json of an earlier run, survey or fit (treat and explain)",
       "  --skip-missing-columns  treat: leave out the plan's columns the table lacks (default: exit 3)",
       "",
-      "Exit codes: 0 success, 1 unexpected failure, 2 bad usage or config, 3 bad input.");
+      "Exit codes: 0 success, 1 unexpected failure, 2 bad usage or config, 3 bad input,",
+      "            4 a gate limit was passed (outputs published, treated rows held back under DIR/held by default).");
 
   private static final String COMMANDS = "run, survey, fit, treat or explain";
 
@@ -133,9 +134,6 @@ public record Arguments(
     }
     if (!command.equals("treat") && plan.isPresent()) {
       throw SluiceException.usage("--plan is for treat only; " + command + " fits its own plan");
-    }
-    if (command.equals("treat") && (config.isPresent() || !sets.isEmpty())) {
-      throw SluiceException.usage("treat takes its settings from the plan; --config and --set do not apply");
     }
     if (skipMissing && !command.equals("treat")) {
       throw SluiceException.usage("--skip-missing-columns is for treat only");

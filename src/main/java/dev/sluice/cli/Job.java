@@ -11,7 +11,10 @@ import dev.sluice.io.InputTable;
 import dev.sluice.io.OutputLayout;
 import dev.sluice.io.PlanFile;
 import dev.sluice.io.TableReader;
+import dev.sluice.plan.GateCheck;
+import dev.sluice.plan.Gates;
 import dev.sluice.plan.Plan;
+import dev.sluice.stats.Published;
 import dev.sluice.report.CorrelationTable;
 import dev.sluice.report.HtmlReport;
 import dev.sluice.report.Outputs;
@@ -21,9 +24,11 @@ import dev.sluice.treat.TreatedTable;
 import dev.sluice.treat.TreatmentSplit;
 import java.io.PrintStream;
 import java.time.Instant;
+import java.util.ArrayList;
 import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Map;
+import java.util.OptionalDouble;
 import java.util.Set;
 import java.util.UUID;
 import java.util.concurrent.CompletableFuture;
@@ -53,12 +58,18 @@ public final class Job {
   private final SparkSession spark;
   private final Arguments args;
   private final Settings settings;
+  private final Set<String> givenGates;
   private final PrintStream progress;
 
-  public Job(SparkSession spark, Arguments args, Settings settings, PrintStream progress) {
+  /**
+   * @param givenGates treat: the gate settings given on its command line (HOCON paths), which
+   *     replace the plan's
+   */
+  public Job(SparkSession spark, Arguments args, Settings settings, Set<String> givenGates, PrintStream progress) {
     this.spark = spark;
     this.args = args;
     this.settings = settings;
+    this.givenGates = givenGates;
     this.progress = progress;
   }
 
@@ -91,7 +102,8 @@ public final class Job {
     long read = selected.malformedColumn().isEmpty() ? fit.profile().rows()
         : selected.rowsRead().isPresent() ? selected.rowsRead().getAsLong() : selected.data().count();
     rows.put("read", read);
-    if (args.command().equals("run")) {
+    boolean treats = args.command().equals("run");
+    if (treats) {
       say("pass 3 of 3: treating and writing " + args.output() + "/treated");
       long t = System.nanoTime();
       // The summary tables need only the fit: their small jobs run beside the writing pass.
@@ -108,18 +120,69 @@ public final class Job {
     } else {
       seconds.put("summary", timed(() -> writeTables(fit, out)));
     }
+    List<GateCheck.Breach> breaches = GateCheck.check(fit.plan().gates(), GateCheck.atFit(fit.plan()),
+        treats ? quarantinedShare(rows) : OptionalDouble.empty());
     Map<String, Object> record = RunRecord.of(runId, args, table, rows, seconds, started, spark);
+    gates(record, fit.plan().gates(), breaches, treats);
     Outputs.json(spark, out.staged("run.json"), record);
     Outputs.text(spark, out.staged("report.html"), HtmlReport.render(new HtmlReport.Inputs(record,
         fit.profile(), fit.plan(), fit.stats(), settings,
         SettingsLoader.differencesFromDefaults(args.config().map(java.nio.file.Path::of), args.sets()))));
-    publish(table, out, record);
+    publish(table, out, record, fit.plan().gates(), breaches);
     return record;
   }
 
-  private void publish(InputTable table, OutputLayout out, Map<String, Object> record) {
+  /**
+   * Publishes the staged outputs; when a gate limit was passed, the treated and quarantined rows
+   * go under held/ (unless the gates say publish), and the run then fails with exit code 4.
+   */
+  private void publish(InputTable table, OutputLayout out, Map<String, Object> record, Gates gates,
+      List<GateCheck.Breach> breaches) {
     boolean partial = args.where().isPresent() && !table.partitionColumns().isEmpty();
-    out.publish(partial ? Set.of("treated", "quarantine") : Set.of(), RunRecord.marker(record));
+    boolean hold = !breaches.isEmpty() && gates.holds();
+    out.publish(partial ? Set.of("treated", "quarantine") : Set.of(),
+        hold ? Set.of("treated", "quarantine") : Set.of(), RunRecord.marker(record));
+    if (!breaches.isEmpty()) {
+      boolean treated = record.get("rows") instanceof Map<?, ?> r && r.containsKey("treated");
+      throw new SluiceException(SluiceException.Kind.GATES, breaches.size() + " gate limit(s) passed: "
+          + String.join("; ", breaches.stream().map(GateCheck.Breach::describe).toList())
+          + (!treated ? "; the outputs are published"
+              : hold ? "; the treated output is held back under " + args.output() + "/" + OutputLayout.HELD
+                  + " (gates.on-breach = publish would publish it)"
+              : "; the treated output is published (gates.on-breach = publish)"));
+    }
+  }
+
+  /** The share of the rows read that went to quarantine (0 of none read). */
+  private static OptionalDouble quarantinedShare(Map<String, Object> rows) {
+    long read = (Long) rows.get("read");
+    return OptionalDouble.of(read == 0 ? 0 : (double) (Long) rows.get("quarantined") / read);
+  }
+
+  /** The gates' outcome in the run record: the limits that were checked and those passed. */
+  private static void gates(Map<String, Object> record, Gates gates, List<GateCheck.Breach> breaches,
+      boolean treats) {
+    Map<String, Object> g = new LinkedHashMap<>();
+    g.put("on_breach", gates.onBreach());
+    g.put("quarantined_share_limit", gates.quarantinedShare());
+    g.put("column_limits", gates.columns());
+    List<Map<String, Object>> passed = new ArrayList<>();
+    for (GateCheck.Breach b : breaches) {
+      Map<String, Object> m = new LinkedHashMap<>();
+      m.put("column", b.column());
+      m.put("limit", b.limit());
+      m.put("max", b.max());
+      m.put("measured", Published.round(b.measured()));
+      m.put("message", b.describe());
+      passed.add(m);
+    }
+    g.put("passed", passed);
+    g.put("outcome", breaches.isEmpty() ? "kept" : !treats ? "passed"
+        : gates.holds() ? "passed; treated output held back" : "passed; treated output published");
+    record.put("gates", g);
+    if (!breaches.isEmpty()) {
+      record.put("status", "gate limits passed");
+    }
   }
 
   /**
@@ -132,7 +195,9 @@ public final class Job {
     String file = args.plan().orElseThrow();
     PlanFile.Fitting fitting = PlanFile.check(PlanFile.read(spark.sparkContext().hadoopConfiguration(), file),
         selected.wellFormed().schema(), file, args.skipMissing());
-    Plan plan = fitting.plan();
+    // A gate setting given to treat replaces the plan's same setting.
+    Plan plan = fitting.plan().withGates(
+        fitting.plan().gates().overriddenBy(settings, givenGates, fitting.plan().columns()));
     TreatedTable.checkNoCollisions(selected.wellFormed().schema(), plan);
     if (!fitting.notInPlan().isEmpty()) {
       say("columns the plan does not know pass through untouched: " + String.join(", ", fitting.notInPlan()));
@@ -144,7 +209,6 @@ public final class Job {
     say("measuring drift from the plan's fit-time figures (one pass)");
     long d = System.nanoTime();
     DriftPass.Measured measured = DriftPass.measure(selected.wellFormed(), plan);
-    List<Map<String, Object>> drift = DriftPass.rows(measured.columns());
     seconds.put("drift", (System.nanoTime() - d) / 1e9);
     say("treating and writing " + args.output() + "/treated with the saved plan (no refitting)");
     long t = System.nanoTime();
@@ -156,16 +220,20 @@ public final class Job {
     rows.put("read", read);
     rows.putAll(writeTreated(selected, plan, out, read));
     seconds.put("treat-and-write", (System.nanoTime() - t) / 1e9);
+    List<GateCheck.Breach> breaches = GateCheck.check(plan.gates(), DriftPass.readings(measured.columns()),
+        quarantinedShare(rows));
+    List<Map<String, Object>> drift = DriftPass.rows(measured.columns(), breaches);
     Outputs.json(spark, out.staged("plan.json"), plan);
-    Outputs.parquet(spark, out.staged("drift"), DriftPass.COLUMNS, drift);
-    Outputs.csv(spark, out.staged("drift.csv"), DriftPass.COLUMNS, drift);
+    Outputs.parquet(spark, out.staged("summary"), DriftPass.COLUMNS, drift);
+    Outputs.csv(spark, out.staged("summary.csv"), DriftPass.COLUMNS, drift);
     Map<String, Object> record = RunRecord.of(runId, args, table, rows, seconds, started, spark);
     record.put("plan_file", file);
     record.put("columns_not_in_plan", fitting.notInPlan());
     record.put("plan_columns_skipped", fitting.skipped());
     record.put("drift", drift);
+    gates(record, plan.gates(), breaches, true);
     Outputs.json(spark, out.staged("run.json"), record);
-    publish(table, out, record);
+    publish(table, out, record, plan.gates(), breaches);
     return record;
   }
 

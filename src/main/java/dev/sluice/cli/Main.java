@@ -17,7 +17,8 @@ import org.slf4j.LoggerFactory;
 
 /**
  * The command line. Every failure ends in one line on standard error and an exit code: 0 success,
- * 1 unexpected failure, 2 bad usage or configuration, 3 bad input. Stack traces go to the log.
+ * 1 unexpected failure, 2 bad usage or configuration, 3 bad input, 4 a gate limit passed. Stack
+ * traces go to the log.
  */
 public final class Main {
   private static final Logger LOG = LoggerFactory.getLogger(Main.class);
@@ -48,9 +49,11 @@ public final class Main {
         out.print(PlanSql.select(spark, plan, args.table()));
         return 0;
       }
+      java.util.Set<String> given = args.command().equals("treat")
+          ? SettingsLoader.requireOnlyGates(args.config().map(Path::of), args.sets()) : java.util.Set.of();
       Settings settings = SettingsLoader.load(args.config().map(Path::of), args.sets());
       spark = session(settings);
-      Map<String, Object> record = new Job(spark, args, settings, err).execute();
+      Map<String, Object> record = new Job(spark, args, settings, given, err).execute();
       out.println("sluice: " + args.command() + " finished; outputs under " + args.output());
       out.println("sluice: rows " + record.get("rows"));
       return 0;

@@ -9,6 +9,7 @@ import java.util.OptionalDouble;
  * @param validMin values below are incorrect entries (empty: no lower bound)
  * @param validMax values above are incorrect entries (empty: no upper bound)
  * @param invalidAction what happens to an incorrect entry
+ * @param limits the column's gate limits
  */
 public record ColumnSettings(
     String name,
@@ -18,7 +19,8 @@ public record ColumnSettings(
     InvalidAction invalidAction,
     OutlierSettings outliers,
     MissingSettings missing,
-    ScalingMethod scaling) {
+    ScalingMethod scaling,
+    ColumnLimits limits) {
 
   /**
    * True when a later step needs the quartiles of the values after the outlier step: filling by
@@ -37,12 +39,13 @@ public record ColumnSettings(
       OutlierSettings outliers,
       MissingSettings missing,
       ScalingMethod scaling) {
-    this(name, role, validMin, validMax, InvalidAction.SET_MISSING, outliers, missing, scaling);
+    this(name, role, validMin, validMax, InvalidAction.SET_MISSING, outliers, missing, scaling,
+        ColumnLimits.NONE);
   }
 
   /** The same settings under another column name. */
   public ColumnSettings named(String other) {
     return new ColumnSettings(
-        other, role, validMin, validMax, invalidAction, outliers, missing, scaling);
+        other, role, validMin, validMax, invalidAction, outliers, missing, scaling, limits);
   }
 }

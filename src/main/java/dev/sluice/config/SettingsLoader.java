@@ -137,6 +137,33 @@ public final class SettingsLoader {
     return out;
   }
 
+  /**
+   * For {@code treat}, whose treatment comes from the plan: refuses every setting that differs
+   * from reference.conf other than the gates ({@code gates}, {@code defaults.limits}, {@code
+   * columns."<name>".limits}) and the Spark session's ({@code spark}).
+   *
+   * @return the keys that differ from reference.conf, in HOCON path syntax (sluice.gates.on-breach)
+   */
+  public static Set<String> requireOnlyGates(Optional<Path> configFile, List<String> overrides) {
+    Set<String> given = nonDefaultSettings(effectiveConfig(configFile, overrides)).keySet();
+    List<String> other = new ArrayList<>();
+    for (String key : given) {
+      List<String> p = ConfigUtil.splitPath(key);
+      boolean gate = p.get(1).equals("gates") || p.get(1).equals("spark")
+          || p.get(1).equals("defaults") && p.size() > 2 && p.get(2).equals("limits")
+          || p.get(1).equals("columns") && p.size() > 3 && p.get(3).equals("limits");
+      if (!gate) {
+        other.add(key);
+      }
+    }
+    if (!other.isEmpty()) {
+      throw SluiceException.usage("treat takes its treatment from the plan; of the settings only gates,"
+          + " limits and spark may be given, not " + String.join(", ", other.subList(0, Math.min(5, other.size())))
+          + (other.size() > 5 ? " and " + (other.size() - 5) + " more" : ""));
+    }
+    return given;
+  }
+
   private static Map<String, ConfigValue> leaves(Config config) {
     return ConfigTree.leaves(config.getObject("sluice"), List.of("sluice"), ConfigUtil::joinPath);
   }

@@ -25,7 +25,7 @@ final class SettingsParser {
   static final String DEFAULTS_NAME = "";
 
   private static final Set<String> FORMATS = Set.of("", "parquet", "csv", "orc", "json");
-  private static final List<String> TREATMENT_BLOCKS = List.of("outliers", "missing", "scaling");
+  private static final List<String> TREATMENT_BLOCKS = List.of("outliers", "missing", "scaling", "limits");
 
   private SettingsParser() {}
 
@@ -43,6 +43,7 @@ final class SettingsParser {
         input(root),
         quantiles(root),
         collinearity(root),
+        gates(root),
         defaults,
         columns(sluice.getObject("columns"), defaultsConfig));
   }
@@ -128,6 +129,28 @@ final class SettingsParser {
     return new CollinearitySettings(enabled, pairThreshold, vifLimit, drop, maxColumns, spearmanRows);
   }
 
+  private static GateSettings gates(ValueReader r) {
+    GateSettings.OnBreach onBreach = r.choice("gates.on-breach", GateSettings.OnBreach.class);
+    return new GateSettings(onBreach, share(r, "gates.quarantined-share"));
+  }
+
+  /** A share from 0 to 1, or empty for null (no limit). */
+  private static OptionalDouble share(ValueReader r, String key) {
+    OptionalDouble x = r.optionalNumber(key);
+    if (x.isPresent() && !(x.getAsDouble() >= 0 && x.getAsDouble() <= 1)) {
+      throw r.invalid(key, "expected a number from 0 to 1, or null for no limit");
+    }
+    return x;
+  }
+
+  private static ColumnLimits limits(ValueReader r) {
+    OptionalDouble psi = r.optionalNumber("limits.psi");
+    if (psi.isPresent() && !(psi.getAsDouble() >= 0)) {
+      throw r.invalid("limits.psi", "expected a number of at least 0, or null for no limit");
+    }
+    return new ColumnLimits(share(r, "limits.null-rate"), share(r, "limits.beyond-share"), psi);
+  }
+
   /** Each named column: its own block over the defaults, merged key by key at every depth. */
   private static Map<String, ColumnSettings> columns(ConfigObject columns, Config defaults) {
     Map<String, ColumnSettings> out = new TreeMap<>();
@@ -185,7 +208,7 @@ final class SettingsParser {
     InvalidAction invalid = r.choice("invalid-action", InvalidAction.class);
     ScalingMethod scaling = r.choice("scaling", ScalingMethod.class);
     return new ColumnSettings(
-        name, role, validMin, validMax, invalid, outliers(r), missing(r), scaling);
+        name, role, validMin, validMax, invalid, outliers(r), missing(r), scaling, limits(r));
   }
 
   private static OutlierSettings outliers(ValueReader r) {

@@ -27,8 +27,10 @@ public final class OutputLayout {
   /** Written last, with the run id and the row counts; its absence means the run did not finish. */
   public static final String MARKER = "_COMMITTED";
   static final String STAGING = "_staging";
+  /** Where outputs held back by a gate breach are published instead, for review. */
+  public static final String HELD = "held";
   /** The entries a run of ours writes; anything else makes the directory not ours. */
-  static final Set<String> OURS = Set.of(MARKER, STAGING, "treated", "quarantine", "summary",
+  static final Set<String> OURS = Set.of(MARKER, STAGING, HELD, "treated", "quarantine", "summary",
       "summary.csv", "correlations", "correlations.csv", "plan.json", "run.json", "report.html");
 
   private final FileSystem fs;
@@ -111,23 +113,29 @@ public final class OutputLayout {
    * Publishes the staged outputs and writes the marker. The outputs named in {@code byPartition}
    * replace only the partition directories the run wrote (a rerun for one day leaves the other
    * days); every other staged output replaces its earlier version whole. Earlier outputs of ours
-   * that this run did not write are removed, so the directory always reflects one run.
+   * that this run did not write are removed, so the directory always reflects one run. The outputs
+   * named in {@code held} go whole under {@value #HELD}/ instead of into place.
    */
-  public void publish(Set<String> byPartition, String markerJson) {
+  public void publish(Set<String> byPartition, Set<String> held, String markerJson) {
     try {
       fs.delete(new Path(root, MARKER), false);
       List<String> staged = new ArrayList<>();
       for (FileStatus s : fs.listStatus(staging)) {
         staged.add(s.getPath().getName());
       }
+      List<String> placed = new ArrayList<>(staged);
+      placed.removeAll(held);
       for (String name : OURS) {
-        if (!name.equals(MARKER) && !name.equals(STAGING) && !staged.contains(name)
+        if (!name.equals(MARKER) && !name.equals(STAGING) && !placed.contains(name)
             && !byPartition.contains(name)) {
           fs.delete(new Path(root, name), true);
         }
       }
       for (String name : staged) {
-        if (byPartition.contains(name)) {
+        if (held.contains(name)) {
+          fs.mkdirs(new Path(root, HELD));
+          rename(new Path(staging, name), new Path(new Path(root, HELD), name));
+        } else if (byPartition.contains(name)) {
           mergePartitions(new Path(staging, name), new Path(root, name));
         } else {
           replace(new Path(staging, name), new Path(root, name));

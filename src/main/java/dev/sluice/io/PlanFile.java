@@ -7,6 +7,7 @@ import com.fasterxml.jackson.databind.ObjectMapper;
 import com.fasterxml.jackson.databind.json.JsonMapper;
 import dev.sluice.SluiceException;
 import dev.sluice.plan.ColumnPlan;
+import dev.sluice.plan.Gates;
 import dev.sluice.plan.Plan;
 import dev.sluice.profile.Batches;
 import java.io.IOException;
@@ -56,12 +57,14 @@ public final class PlanFile {
     if (version == null || !version.canConvertToInt()) {
       throw SluiceException.usage("Plan file " + file + " has no formatVersion: it is not a plan.json written by Sluice");
     }
-    if (version.asInt() != Plan.FORMAT_VERSION) {
+    if (version.asInt() < Plan.OLDEST_FORMAT_VERSION || version.asInt() > Plan.FORMAT_VERSION) {
       throw SluiceException.usage("Plan file " + file + " has format version " + version.asInt()
-          + "; this Sluice applies version " + Plan.FORMAT_VERSION);
+          + "; this Sluice applies versions " + Plan.OLDEST_FORMAT_VERSION + " to " + Plan.FORMAT_VERSION);
     }
     try {
-      return JSON.treeToValue(tree, Plan.class);
+      Plan plan = JSON.treeToValue(tree, Plan.class);
+      // Version 2 came before the gates: read as a plan without limits.
+      return plan.gates() == null ? plan.withGates(Gates.NONE) : plan;
     } catch (JsonProcessingException e) {
       throw SluiceException.usage("Plan file " + file + " is not a plan this Sluice can apply: "
           + e.getOriginalMessage());
@@ -117,8 +120,7 @@ public final class PlanFile {
         fresh.add(f.name());
       }
     }
-    Plan applied = missing.isEmpty() ? plan : new Plan(plan.formatVersion(), plan.rowsFitted(),
-        plan.quantileMethod(), plan.rankError(), List.copyOf(present), plan.collinearity(), plan.fitted());
+    Plan applied = missing.isEmpty() ? plan : plan.withColumns(present);
     return new Fitting(applied, fresh, missing);
   }
 

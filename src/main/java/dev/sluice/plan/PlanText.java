@@ -33,6 +33,10 @@ public final class PlanText {
             ? cp.scaling().method() + ", (x - " + num(cp.scaling().centre()) + ") / " + num(cp.scaling().scale())
             : "none").append('\n');
       }
+      Gates.Limits l = plan.gates().columns().get(cp.name());
+      if (l != null) {
+        b.append("  limits: ").append(limits(l)).append('\n');
+      }
     }
     CollinearityFindings f = plan.collinearity();
     b.append("\ncollinearity: ").append(f.status());
@@ -47,7 +51,27 @@ public final class PlanText {
       b.append("; suggested to drop: ").append(String.join(", ", f.suggestedDrops()))
           .append(f.dropped().isEmpty() ? " (kept)" : " (dropped)");
     }
+    b.append('\n');
+    Gates g = plan.gates();
+    b.append("\ngates: ").append(g.columns().isEmpty() && g.quarantinedShare() == null ? "no limits"
+        : (g.quarantinedShare() == null ? "" : "quarantined-share at most " + num(g.quarantinedShare()) + "; ")
+            + "a run that passes a limit exits with code 4"
+            + (g.holds() ? " and holds its treated output back under held/" : " and still publishes its treated output"));
     return b.append('\n').toString();
+  }
+
+  private static String limits(Gates.Limits l) {
+    List<String> parts = new ArrayList<>();
+    if (l.nullRate() != null) {
+      parts.add("null-rate at most " + num(l.nullRate()));
+    }
+    if (l.beyondShare() != null) {
+      parts.add("beyond-share at most " + num(l.beyondShare()));
+    }
+    if (l.psi() != null) {
+      parts.add("psi at most " + num(l.psi()));
+    }
+    return String.join(", ", parts);
   }
 
   /** The validity bounds of a column in words, its numbers written by {@code num}. */

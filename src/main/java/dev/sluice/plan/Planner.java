@@ -57,7 +57,8 @@ public final class Planner {
         any == null ? 0.0 : any.rankError(),
         List.copyOf(finalColumns),
         findings,
-        fitted(profile, finalColumns, stats));
+        fitted(profile, finalColumns, stats),
+        Gates.of(settings, finalColumns));
   }
 
   /** The fit-time figures of every treated column (drift is measured against them). */

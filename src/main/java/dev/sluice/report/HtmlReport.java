@@ -106,6 +106,23 @@ public final class HtmlReport {
             : "<span class=\"bad\">no</span>").append("</td></tr>");
       }
     }
+    if (r.get("gates") instanceof Map<?, ?> g) {
+      b.append("<tr><th>gates</th><td>");
+      if (g.get("passed") instanceof List<?> passed && !passed.isEmpty()) {
+        b.append("<span class=\"bad\">").append(passed.size()).append(" limit(s) passed</span> (exit code 4; ")
+            .append(esc(g.get("outcome"))).append("):<ul>");
+        for (Object p : passed) {
+          b.append("<li>").append(esc(((Map<?, ?>) p).get("message"))).append("</li>");
+        }
+        b.append("</ul>");
+      } else if (g.get("column_limits") instanceof Map<?, ?> limits && limits.isEmpty()
+          && g.get("quarantined_share_limit") == null) {
+        b.append("no limits set");
+      } else {
+        b.append("<span class=\"ok\">every limit kept</span>");
+      }
+      b.append("</td></tr>");
+    }
     if (r.get("seconds") instanceof Map<?, ?> seconds) {
       StringBuilder t = new StringBuilder();
       seconds.forEach((k, v) -> t.append(t.length() == 0 ? "" : ", ").append(k).append(" ").append(v).append(" s"));

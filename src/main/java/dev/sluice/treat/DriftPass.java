@@ -8,6 +8,7 @@ import static org.apache.spark.sql.functions.when;
 import dev.sluice.io.Names;
 import dev.sluice.plan.ColumnPlan;
 import dev.sluice.plan.FitFigures;
+import dev.sluice.plan.GateCheck;
 import dev.sluice.plan.Plan;
 import java.util.ArrayList;
 import java.util.LinkedHashMap;
@@ -129,8 +130,18 @@ public final class DriftPass {
     return total;
   }
 
-  /** The drift figures as rows of a small table (for run.json and drift.csv). */
-  public static List<Map<String, Object>> rows(List<Drift> drift) {
+  /** What the gates check of each column: the figures measured now. */
+  public static List<GateCheck.Reading> readings(List<Drift> drift) {
+    return drift.stream()
+        .map(d -> new GateCheck.Reading(d.column(), d.nullRateNow(), d.beyondShareNow(), d.psi()))
+        .toList();
+  }
+
+  /**
+   * The drift figures as rows of a small table (treat's summary, and run.json), each with the
+   * column's gate limits that were passed (empty when none).
+   */
+  public static List<Map<String, Object>> rows(List<Drift> drift, List<GateCheck.Breach> breaches) {
     List<Map<String, Object>> out = new ArrayList<>();
     for (Drift d : drift) {
       Map<String, Object> m = new LinkedHashMap<>();
@@ -140,6 +151,8 @@ public final class DriftPass {
       m.put("beyond_share_fit", finite(d.beyondShareFit()));
       m.put("beyond_share_now", finite(d.beyondShareNow()));
       m.put("psi", finite(d.psi()));
+      m.put("limits_passed", String.join(", ", breaches.stream()
+          .filter(b -> d.column().equals(b.column())).map(GateCheck.Breach::limit).toList()));
       out.add(m);
     }
     return out;
@@ -154,6 +167,7 @@ public final class DriftPass {
     for (String k : List.of("null_rate_fit", "null_rate_now", "beyond_share_fit", "beyond_share_now", "psi")) {
       c.put(k, Double.class);
     }
+    c.put("limits_passed", String.class);
     return c;
   }
 

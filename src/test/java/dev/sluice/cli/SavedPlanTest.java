@@ -135,7 +135,8 @@ class SavedPlanTest {
         assertThat(d.get("beyond_share_now").asDouble()).isCloseTo(d.get("beyond_share_fit").asDouble(), within(1e-11));
       }
     }
-    assertThat(same.resolve("drift.csv")).exists();
+    assertThat(same.resolve("summary.csv")).exists();
+    assertThat(spark.read().parquet(same.resolve("summary").toString()).count()).isEqualTo(drift.size());
     // The same table with dwell times doubled and a third of the energy readings lost.
     Path moved = tmp.resolve("moved");
     spark.read().parquet("sample-parquet")
@@ -144,7 +145,10 @@ class SavedPlanTest {
             functions.lit(null)).otherwise(functions.col("energy_kwh")))
         .write().parquet(moved.toString());
     Path out = tmp.resolve("treat-moved");
-    assertThat(run("treat", "--plan", plan.toString(), "--input", moved.toString(), "--output", out.toString()).code()).isZero();
+    // conf/sample.conf limits the drift index of every column to 0.25: dwell_hours passes it.
+    Runs.Result r = run("treat", "--plan", plan.toString(), "--input", moved.toString(), "--output", out.toString());
+    assertThat(r.code()).as(r.err()).isEqualTo(4);
+    assertThat(r.lastErrLine()).contains("dwell_hours: psi");
     java.util.Map<String, JsonNode> byColumn = new java.util.HashMap<>();
     json(out.resolve("run.json")).get("drift").forEach(d -> byColumn.put(d.get("column").asText(), d));
     assertThat(byColumn.get("dwell_hours").get("psi").asDouble()).isGreaterThan(0.25);
@@ -155,12 +159,27 @@ class SavedPlanTest {
   }
 
   @Test
+  void aVersionTwoPlanFromBeforeTheGatesIsStillApplied(SparkSession spark) throws Exception {
+    com.fasterxml.jackson.databind.node.ObjectNode tree = (com.fasterxml.jackson.databind.node.ObjectNode) json(plan);
+    tree.remove("gates");
+    tree.put("formatVersion", 2);
+    Path two = tmp.resolve("plan-v2.json");
+    Files.writeString(two, tree.toPrettyString());
+    Path out = tmp.resolve("treat-v2");
+    Runs.Result r = run("treat", "--plan", two.toString(), "--input", "sample-parquet", "--output", out.toString());
+    assertThat(r.code()).as(r.err()).isZero();
+    JsonNode used = json(out.resolve("plan.json"));
+    assertThat(used.get("formatVersion").asInt()).isEqualTo(3);
+    assertThat(used.at("/gates/columns")).isEmpty();
+  }
+
+  @Test
   void onlyAPlanOfThisFormatIsApplied() throws Exception {
     Path old = tmp.resolve("old-plan.json");
-    Files.writeString(old, Files.readString(plan).replaceFirst("\"formatVersion\" : 2", "\"formatVersion\" : 99"));
+    Files.writeString(old, Files.readString(plan).replaceFirst("\"formatVersion\" : 3", "\"formatVersion\" : 99"));
     Runs.Result r = run("treat", "--plan", old.toString(), "--input", "sample-parquet", "--output", tmp.resolve("o1").toString());
     assertThat(r.code()).isEqualTo(2);
-    assertThat(r.lastErrLine()).contains("format version 99; this Sluice applies version 2");
+    assertThat(r.lastErrLine()).contains("format version 99; this Sluice applies versions 2 to 3");
     Path notJson = tmp.resolve("notes.txt");
     Files.writeString(notJson, "fences: 1.5 IQR");
     Runs.Result bad = run("treat", "--plan", notJson.toString(), "--input", "sample-parquet", "--output", tmp.resolve("o2").toString());
@@ -172,7 +191,8 @@ class SavedPlanTest {
     assertThat(odd.code()).isEqualTo(2);
     assertThat(odd.lastErrLine()).contains("not a plan this Sluice can apply");
     assertThat(run("treat", "--plan", plan.toString(), "--config", "conf/sample.conf", "--input", "sample-parquet",
-        "--output", tmp.resolve("o4").toString()).lastErrLine()).contains("takes its settings from the plan");
+        "--output", tmp.resolve("o4").toString()).lastErrLine()).contains("takes its treatment from the plan")
+        .contains("sluice.columns.air_temp_c.outliers.action");
     assertThat(run("run", "--plan", plan.toString(), "--input", "sample-parquet",
         "--output", tmp.resolve("o5").toString()).code()).isEqualTo(2);
   }

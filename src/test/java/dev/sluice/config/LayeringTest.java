@@ -173,6 +173,7 @@ class LayeringTest {
     assertThat(s.column("dwell_hours").outliers().action()).isEqualTo(OutlierAction.CAP);
     assertThat(s.column("inspection_score").outliers().direction()).isEqualTo(Direction.LOW);
     assertThat(s.column("energy_kwh")).isEqualTo(withName(s.defaults(), "energy_kwh"));
+    assertThat(s.column("energy_kwh").limits().psi()).hasValue(0.25);
   }
 
   @Test
@@ -191,7 +192,7 @@ class LayeringTest {
   }
 
   private static ColumnSettings withName(ColumnSettings c, String name) {
-    return new ColumnSettings(
-        name, c.role(), c.validMin(), c.validMax(), c.outliers(), c.missing(), c.scaling());
+    return new ColumnSettings(name, c.role(), c.validMin(), c.validMax(), c.invalidAction(), c.outliers(),
+        c.missing(), c.scaling(), c.limits());
   }
 }
