@@ -32,6 +32,42 @@ final class Roles {
     return roles;
   }
 
+  /**
+   * groups.by names columns of the table; a column treated group by group is not also scaled (its
+   * scaling would be fitted on the table-wide treatment, so its scaled values would not have the
+   * centre and spread the plan states).
+   */
+  static void checkGroups(StructType schema, Settings settings, Map<String, Role> roles) {
+    if (!settings.groups().any()) {
+      return;
+    }
+    List<String> names = List.of(schema.fieldNames());
+    List<String> lacking = settings.groups().by().stream().filter(b -> !names.contains(b)).toList();
+    if (!lacking.isEmpty()) {
+      throw SluiceException.usage("sluice.groups.by names " + String.join(", ", lacking)
+          + ", which the table lacks; its columns are: " + String.join(", ", names.subList(0, Math.min(20, names.size())))
+          + (names.size() > 20 ? " and " + (names.size() - 20) + " more" : ""));
+    }
+    List<String> scaled = new ArrayList<>();
+    for (StructField f : schema.fields()) {
+      ColumnSettings cs = settings.column(f.name());
+      Role r = roles.get(f.name());
+      boolean treated = r == Role.TREAT || r == Role.REQUIRED;
+      boolean groupWise = cs.outliers().method() == dev.sluice.config.OutlierMethod.IQR
+          || cs.outliers().method() == dev.sluice.config.OutlierMethod.ZSCORE
+          || cs.missing().strategy() == dev.sluice.config.ImputeStrategy.MEDIAN
+          || cs.missing().strategy() == dev.sluice.config.ImputeStrategy.MEAN;
+      if (treated && ColumnKind.of(f.dataType()) == ColumnKind.NUMERIC && groupWise
+          && cs.scaling() != dev.sluice.config.ScalingMethod.NONE) {
+        scaled.add(f.name());
+      }
+    }
+    if (!scaled.isEmpty()) {
+      throw SluiceException.usage("Scaling is not yet fitted group by group: with sluice.groups.by set, "
+          + String.join(", ", scaled) + " would get group-wise limits or fill values, so set their scaling = none");
+    }
+  }
+
   /** Settings that cannot apply to a column's type are errors naming the column, before any job. */
   static void checkTypes(StructType schema, Settings settings) {
     List<String> problems = new ArrayList<>();

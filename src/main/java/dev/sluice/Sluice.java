@@ -12,6 +12,7 @@ import dev.sluice.profile.Profiler;
 import dev.sluice.profile.TableProfile;
 import dev.sluice.report.Outputs;
 import dev.sluice.report.SummaryTable;
+import dev.sluice.treat.GroupPass;
 import dev.sluice.treat.TreatedStatsPass;
 import dev.sluice.treat.TreatedTable;
 import dev.sluice.treat.TreatmentSplit;
@@ -49,6 +50,7 @@ public final class Sluice {
       Dataset<Row> data, Settings settings, List<String> partitionColumns, Consumer<String> progress) {
     checkColumns(data, settings);
     Map<String, Role> roles = Roles.effective(data.schema(), settings, partitionColumns);
+    Roles.checkGroups(data.schema(), settings, roles);
     Map<String, Double> seconds = new LinkedHashMap<>();
     progress.accept("pass 1 of 3: profiling " + data.columns().length + " columns");
     long t0 = System.nanoTime();
@@ -74,6 +76,13 @@ public final class Sluice {
     TreatedStats stats = early.orElseGet(() -> TreatedStatsPass.run(data, profile, outliers, settings));
     seconds.put("treated-statistics", elapsed(t1));
     Plan plan = Planner.finish(profile, settings, outliers, stats);
+    if (settings.groups().any()) {
+      progress.accept("group-wise limits and fill values by " + String.join(", ", settings.groups().by())
+          + " (one grouped aggregate, two when a fill value needs the values after the group's outlier step)");
+      long t2 = System.nanoTime();
+      plan = plan.withColumns(GroupPass.fit(data, plan.columns(), settings));
+      seconds.put("groups", elapsed(t2));
+    }
     TreatedTable.checkNoCollisions(data.schema(), plan);
     return new Fit(profile, plan, stats, seconds);
   }

@@ -9,6 +9,7 @@ import java.util.Map;
  * @param sparkMaster master URL for local runs (ignored when a session already exists)
  * @param sparkConf extra Spark settings passed through as given
  * @param gates what a breached limit does to the treated output, and the table-wide limit
+ * @param groups the columns whose groups get their own limits and fill values
  * @param defaults the column settings that apply to a column not named in {@code columns}
  * @param columns the columns named in config, by exact name, defaults applied
  */
@@ -19,6 +20,7 @@ public record Settings(
     QuantileSettings quantiles,
     CollinearitySettings collinearity,
     GateSettings gates,
+    GroupSettings groups,
     ColumnSettings defaults,
     Map<String, ColumnSettings> columns) {
 

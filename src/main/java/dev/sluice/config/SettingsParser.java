@@ -44,6 +44,7 @@ final class SettingsParser {
         quantiles(root),
         collinearity(root),
         gates(root),
+        groups(root),
         defaults,
         columns(sluice.getObject("columns"), defaultsConfig));
   }
@@ -132,6 +133,19 @@ final class SettingsParser {
   private static GateSettings gates(ValueReader r) {
     GateSettings.OnBreach onBreach = r.choice("gates.on-breach", GateSettings.OnBreach.class);
     return new GateSettings(onBreach, share(r, "gates.quarantined-share"));
+  }
+
+  private static GroupSettings groups(ValueReader r) {
+    List<String> by = r.textList("groups.by");
+    if (new java.util.HashSet<>(by).size() != by.size()) {
+      throw r.invalid("groups.by", "expected each column once");
+    }
+    if (by.stream().anyMatch(String::isEmpty)) {
+      throw r.invalid("groups.by", "expected column names, not \"\"");
+    }
+    int minValues = (int) r.whole("groups.min-values", 4, 1_000_000_000, "expected a whole number of at least 4");
+    int maxGroups = (int) r.whole("groups.max-groups", 1, 100_000, "expected a whole number from 1 to 100000");
+    return new GroupSettings(by, minValues, maxGroups);
   }
 
   /** A share from 0 to 1, or empty for null (no limit). */

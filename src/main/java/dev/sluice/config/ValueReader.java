@@ -114,6 +114,15 @@ final class ValueReader {
     }
   }
 
+  /** A list of strings (numbers and booleans taken in their written form). */
+  java.util.List<String> textList(String key) {
+    try {
+      return java.util.List.copyOf(merged.getStringList(key));
+    } catch (ConfigException.Missing | ConfigException.WrongType e) {
+      throw invalid(key, "expected a list of strings, e.g. [\"depot\"]");
+    }
+  }
+
   /** A string, number or boolean in its plain text form, or empty for null. */
   Optional<String> optionalScalar(String key) {
     ConfigValue value = value(key);

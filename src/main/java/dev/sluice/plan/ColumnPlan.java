@@ -8,6 +8,7 @@ package dev.sluice.plan;
  * @param validMin values below are incorrect entries (null: no bound)
  * @param invalidAction set-missing or quarantine: what happens to an incorrect entry
  * @param dropReason why the column is not in the treated output (null: it is)
+ * @param groups the group-wise limits and fill values (null: the table-wide ones apply to every row)
  */
 public record ColumnPlan(
     String name,
@@ -21,7 +22,8 @@ public record ColumnPlan(
     OutlierPlan outliers,
     MissingPlan missing,
     ScalingPlan scaling,
-    String dropReason) {
+    String dropReason,
+    GroupFigures groups) {
 
   public boolean kept() {
     return dropReason == null;
@@ -29,6 +31,11 @@ public record ColumnPlan(
 
   public ColumnPlan dropped(String reason) {
     return new ColumnPlan(name, type, kind, role, treated, validMin, validMax, invalidAction,
-        outliers, missing, scaling, reason);
+        outliers, missing, scaling, reason, groups);
+  }
+
+  public ColumnPlan withGroups(GroupFigures figures) {
+    return new ColumnPlan(name, type, kind, role, treated, validMin, validMax, invalidAction,
+        outliers, missing, scaling, dropReason, figures);
   }
 }

@@ -33,6 +33,9 @@ public final class PlanText {
             ? cp.scaling().method() + ", (x - " + num(cp.scaling().centre()) + ") / " + num(cp.scaling().scale())
             : "none").append('\n');
       }
+      if (cp.groups() != null) {
+        b.append("  groups by ").append(String.join(", ", cp.groups().by())).append(": ").append(groups(cp)).append('\n');
+      }
       Gates.Limits l = plan.gates().columns().get(cp.name());
       if (l != null) {
         b.append("  limits: ").append(limits(l)).append('\n');
@@ -58,6 +61,33 @@ public final class PlanText {
             + "a run that passes a limit exits with code 4"
             + (g.holds() ? " and holds its treated output back under held/" : " and still publishes its treated output"));
     return b.append('\n').toString();
+  }
+
+  /** Each group's limits and fill, or why it takes the table-wide ones. */
+  private static String groups(ColumnPlan cp) {
+    GroupFigures f = cp.groups();
+    StringBuilder b = new StringBuilder();
+    b.append(f.own()).append(" of ").append(f.groups().size()).append(" groups with figures of their own")
+        .append(" (quartiles ").append(f.quantileMethod()).append(", rank error at most ").append(num(f.rankError()))
+        .append("); groups not listed take the table-wide figures");
+    for (GroupFigures.Group g : f.groups()) {
+      b.append("\n    ").append(g.key().stream().map(k -> k == null ? "null" : k).collect(java.util.stream.Collectors.joining(", ")))
+          .append(": ");
+      if (g.fallback() != null) {
+        b.append(g.fallback());
+        continue;
+      }
+      List<String> parts = new ArrayList<>();
+      if (g.lower() != null || g.upper() != null) {
+        parts.add("limits " + num(g.lower()) + " / " + num(g.upper()));
+      }
+      if (g.fill() != null) {
+        parts.add("fill " + num(g.fill()));
+      }
+      b.append(parts.isEmpty() ? "table-wide figures" : String.join(", ", parts)).append(" (").append(g.usable())
+          .append(" usable values)");
+    }
+    return b.toString();
   }
 
   private static String limits(Gates.Limits l) {

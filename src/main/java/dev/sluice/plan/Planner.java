@@ -103,7 +103,7 @@ public final class Planner {
     if (!treated) {
       String why = "role " + lower(c.role().name()) + ", " + lower(c.kind().name()) + ": unchanged";
       return new ColumnPlan(c.name(), c.type(), lower(c.kind().name()), lower(c.role().name()), false,
-          vMin, vMax, "none", outliers, MissingPlan.untouched(why), ScalingPlan.none(), null);
+          vMin, vMax, "none", outliers, MissingPlan.untouched(why), ScalingPlan.none(), null, null);
     }
     TreatedStats.ColumnStats t = numeric ? stats.columns().get(c.name()) : null;
     long present = numeric ? t.present() : rows - c.nulls();
@@ -118,7 +118,7 @@ public final class Planner {
     ScalingPlan scaling = numeric && drop == null ? scaling(s, t, missing, rows) : ScalingPlan.none();
     String invalid = numeric && (vMin != null || vMax != null) ? kebab(s.invalidAction().name()) : "none";
     return new ColumnPlan(c.name(), c.type(), lower(c.kind().name()), lower(c.role().name()), true,
-        vMin, vMax, invalid, outliers, missing, scaling, drop);
+        vMin, vMax, invalid, outliers, missing, scaling, drop, null);
   }
 
   private static boolean treats(Role role) {

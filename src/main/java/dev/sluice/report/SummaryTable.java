@@ -203,6 +203,11 @@ public final class SummaryTable {
     if (!cp.kept()) {
       parts.add("dropped: " + cp.dropReason());
     }
+    if (cp.groups() != null) {
+      parts.add("groups by " + String.join(", ", cp.groups().by()) + ": " + cp.groups().own() + " of "
+          + cp.groups().groups().size() + " groups with limits and fill values of their own (plan.json);"
+          + " this row's counts and figures after treatment are for the table-wide limits and fill value");
+    }
     return String.join("; ", parts);
   }
 

@@ -68,7 +68,8 @@ public final class DriftPass {
         for (double edge : f.binEdges()) {
           aggs.add(sum(when(v.lt(lit(edge)), 1L).otherwise(0L)));
         }
-        aggs.add(sum(when(Treatments.beyond(v, cp.outliers()), 1L).otherwise(0L)));
+        // Beyond the table-wide limits, as at fit time, also for a column with group-wise limits.
+        aggs.add(sum(when(Treatments.beyond(v, cp.withGroups(null)), 1L).otherwise(0L)));
       }
     }
     if (cols.isEmpty()) {

@@ -107,10 +107,10 @@ public final class TreatedTable {
       OutlierPlan o = cp.outliers();
       Column v = Treatments.valid(cp.name(), cp.validMin(), cp.validMax());
       if (o.action().equals("quarantine") && o.lower() != null) {
-        parts.add(when(v.lt(lit(o.lower())), reason("outliers", cp.name(), "lower-limit", original)));
+        parts.add(when(v.lt(Treatments.lowerLimit(cp)), reason("outliers", cp.name(), "lower-limit", original)));
       }
       if (o.action().equals("quarantine") && o.upper() != null) {
-        parts.add(when(v.gt(lit(o.upper())), reason("outliers", cp.name(), "upper-limit", original)));
+        parts.add(when(v.gt(Treatments.upperLimit(cp)), reason("outliers", cp.name(), "upper-limit", original)));
       }
     }
     if (cp.missing().quarantine()) {

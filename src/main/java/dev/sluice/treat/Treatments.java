@@ -6,6 +6,7 @@ import static org.apache.spark.sql.functions.when;
 
 import dev.sluice.io.Names;
 import dev.sluice.plan.ColumnPlan;
+import dev.sluice.plan.GroupFigures;
 import dev.sluice.plan.OutlierPlan;
 import dev.sluice.profile.ValueExprs;
 import java.util.OptionalDouble;
@@ -30,44 +31,83 @@ public final class Treatments {
   }
 
   /** True where the valid value lies beyond the action's limits (false where it is missing). */
-  public static Column beyond(Column v, OutlierPlan o) {
+  public static Column beyond(Column v, ColumnPlan cp) {
     Column out = lit(false);
-    if (o.lower() != null) {
-      out = out.or(v.lt(lit(o.lower())));
+    Column lower = lowerLimit(cp);
+    Column upper = upperLimit(cp);
+    if (lower != null) {
+      out = out.or(v.lt(lower));
     }
-    if (o.upper() != null) {
-      out = out.or(v.gt(lit(o.upper())));
+    if (upper != null) {
+      out = out.or(v.gt(upper));
     }
     return coalesce(out, lit(false));
+  }
+
+  /**
+   * The lower limit of the outlier step: the plan's number, or, with groups, each group's own
+   * (the plan's for a group without figures of its own); null when there is no lower limit.
+   */
+  public static Column lowerLimit(ColumnPlan cp) {
+    return cp.outliers().lower() == null ? null : perGroup(cp, GroupFigures.Group::lower, cp.outliers().lower());
+  }
+
+  /** The upper limit of the outlier step, as {@link #lowerLimit}. */
+  public static Column upperLimit(ColumnPlan cp) {
+    return cp.outliers().upper() == null ? null : perGroup(cp, GroupFigures.Group::upper, cp.outliers().upper());
+  }
+
+  /** The fill value of step 4, as {@link #lowerLimit}; null when the column is not filled. */
+  public static Column fill(ColumnPlan cp) {
+    return cp.missing().fillNumber() == null ? null : perGroup(cp, GroupFigures.Group::fill, cp.missing().fillNumber());
+  }
+
+  /** {@code CASE WHEN <group 1> THEN v1 ... ELSE tableWide END}, or the literal without groups. */
+  private static Column perGroup(ColumnPlan cp, java.util.function.Function<GroupFigures.Group, Double> own,
+      double tableWide) {
+    Column out = null;
+    if (cp.groups() != null) {
+      for (GroupFigures.Group g : cp.groups().groups()) {
+        Double v = own.apply(g);
+        if (v != null) {
+          Column in = GroupPass.inGroup(cp.groups().by(), g.key());
+          out = out == null ? when(in, lit(v)) : out.when(in, lit(v));
+        }
+      }
+    }
+    return out == null ? lit(tableWide) : out.otherwise(lit(tableWide));
   }
 
   /**
    * Step 3: the valid value after the outlier action: capped, or missing (set-missing and
    * quarantine); flag and keep leave it as it is.
    */
-  public static Column afterOutliers(String name, Double validMin, Double validMax, OutlierPlan o) {
-    Column x = ValueExprs.asDouble(name);
-    Column valid = ValueExprs.within(x, opt(validMin), opt(validMax));
+  public static Column afterOutliers(ColumnPlan cp) {
+    OutlierPlan o = cp.outliers();
+    Column x = ValueExprs.asDouble(cp.name());
+    Column valid = ValueExprs.within(x, opt(cp.validMin()), opt(cp.validMax()));
+    Column lower = lowerLimit(cp);
+    Column upper = upperLimit(cp);
     switch (o.action()) {
       case "cap":
         // x is finite where the condition holds, so greatest and least never meet a null or NaN.
         Column capped = x;
-        if (o.lower() != null) {
-          capped = functions.greatest(capped, lit(o.lower()));
+        if (lower != null) {
+          capped = functions.greatest(capped, lower);
         }
-        if (o.upper() != null) {
-          capped = functions.least(capped, lit(o.upper()));
+        if (upper != null) {
+          capped = functions.least(capped, upper);
         }
         return when(valid, capped);
       case "set-missing":
       case "quarantine":
         // A quarantined row leaves the treated table: its value counts as missing here.
         Column kept = valid;
-        if (o.lower() != null) {
-          kept = kept.and(x.geq(lit(o.lower())));
+        if (lower != null) {
+          kept = kept.and(x.geq(lower));
         }
-        if (o.upper() != null) {
-          kept = kept.and(x.leq(lit(o.upper())));
+        if (upper != null) {
+          kept = kept.and(x.leq(upper));
         }
         return when(kept, x);
       default:
@@ -75,14 +115,11 @@ public final class Treatments {
     }
   }
 
-  public static Column afterOutliers(ColumnPlan cp) {
-    return afterOutliers(cp.name(), cp.validMin(), cp.validMax(), cp.outliers());
-  }
-
   /** Steps 2 to 5 for a treated numeric column: valid, outliers, filled, scaled. */
   public static Column numeric(ColumnPlan cp) {
     Column t = afterOutliers(cp);
-    Column u = cp.missing().fillNumber() == null ? t : coalesce(t, lit(cp.missing().fillNumber()));
+    Column fill = fill(cp);
+    Column u = fill == null ? t : coalesce(t, fill);
     if (cp.scaling().active()) {
       u = u.minus(lit(cp.scaling().centre())).divide(lit(cp.scaling().scale()));
     }
@@ -100,7 +137,7 @@ public final class Treatments {
 
   /** Added column of action flag: true where the valid value lies beyond the limits. */
   public static Column outlierFlag(ColumnPlan cp) {
-    return beyond(valid(cp.name(), cp.validMin(), cp.validMax()), cp.outliers());
+    return beyond(valid(cp.name(), cp.validMin(), cp.validMax()), cp);
   }
 
   /** Added column of missing.indicator: true where the step-4 fill was used. */

@@ -159,6 +159,39 @@ class SavedPlanTest {
   }
 
   @Test
+  void aGroupWisePlanTreatsAsRunDoesAndExplainSaysSo(SparkSession spark) {
+    Path fitted = tmp.resolve("fit-groups");
+    Runs.Result f = run("fit", "--input", "sample-parquet", "--output", fitted.toString(), "--config", "conf/sample.conf",
+        "--set", "groups.by=[depot]");
+    assertThat(f.code()).as(f.err()).isZero();
+    assertThat(f.err()).contains("group-wise limits and fill values by depot");
+    Path groupPlan = fitted.resolve("plan.json");
+    JsonNode dwell = null;
+    for (JsonNode c : json(groupPlan).get("columns")) {
+      if (c.get("name").asText().equals("dwell_hours")) {
+        dwell = c;
+      }
+    }
+    assertThat(dwell.at("/groups/by/0").asText()).isEqualTo("depot");
+    assertThat(dwell.at("/groups/groups")).hasSize(6);
+    Path ran = tmp.resolve("run-groups");
+    assertThat(run("run", "--input", "sample-parquet", "--output", ran.toString(), "--config", "conf/sample.conf",
+        "--set", "groups.by=[depot]").code()).isZero();
+    Path treated = tmp.resolve("treat-groups");
+    Runs.Result r = run("treat", "--plan", groupPlan.toString(), "--input", "sample-parquet", "--output", treated.toString());
+    assertThat(r.code()).as(r.err()).isZero();
+    Fixtures.assertSameRows(spark.read().parquet(treated.resolve("treated").toString()),
+        spark.read().parquet(ran.resolve("treated").toString()));
+    // The group-wise treatment differs from the table-wide one of the plain fit.
+    Path plain = tmp.resolve("treat-plain");
+    assertThat(run("treat", "--plan", plan.toString(), "--input", "sample-parquet", "--output", plain.toString()).code()).isZero();
+    assertThat(spark.read().parquet(treated.resolve("treated").toString())
+        .exceptAll(spark.read().parquet(plain.resolve("treated").toString())).count()).isPositive();
+    Runs.Result text = run("explain", "--plan", groupPlan.toString());
+    assertThat(text.out()).contains("groups by depot: 6 of 6 groups with figures of their own");
+  }
+
+  @Test
   void aVersionTwoPlanFromBeforeTheGatesIsStillApplied(SparkSession spark) throws Exception {
     com.fasterxml.jackson.databind.node.ObjectNode tree = (com.fasterxml.jackson.databind.node.ObjectNode) json(plan);
     tree.remove("gates");

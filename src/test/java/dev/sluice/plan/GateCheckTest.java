@@ -83,6 +83,6 @@ class GateCheckTest {
 
   private static ColumnPlan column(String name, boolean treated, boolean kept) {
     return new ColumnPlan(name, "double", "numeric", "treat", treated, null, null, "set-missing", null, null, null,
-        kept ? null : "dropped");
+        kept ? null : "dropped", null);
   }
 }

@@ -31,7 +31,7 @@ class StepsAgreementTest {
     // Validity bounds [-4, 10]; the action applies beyond the limits [1, 7].
     OutlierPlan o = new OutlierPlan("iqr", "both", action, 1.0, 7.0, 1.0, 7.0, -2.0, 10.0, "test");
     Dataset<Row> data = Fixtures.doubles(spark, "x", EDGES);
-    List<Row> rows = data.select(Treatments.afterOutliers("x", -4.0, 10.0, o)).collectAsList();
+    List<Row> rows = data.select(Treatments.afterOutliers(column(-4.0, 10.0, o))).collectAsList();
     NumericSteps steps = o.steps(-4.0, 10.0);
     for (int i = 0; i < EDGES.length; i++) {
       double java = steps.treated(EDGES[i] == null ? Double.NaN : EDGES[i]);
@@ -50,7 +50,7 @@ class StepsAgreementTest {
     // -0.0 equals the limit 0.0: it is not beyond it, and keeps its own bits in both steps.
     OutlierPlan o = new OutlierPlan("iqr", "both", action, 0.0, 7.0, 0.0, 7.0, -2.0, 10.0, "test");
     Dataset<Row> data = Fixtures.doubles(spark, "x", EDGES);
-    List<Row> rows = data.select(Treatments.afterOutliers("x", null, null, o)).collectAsList();
+    List<Row> rows = data.select(Treatments.afterOutliers(column(null, null, o))).collectAsList();
     NumericSteps steps = o.steps(null, null);
     for (int i = 0; i < EDGES.length; i++) {
       double java = steps.treated(EDGES[i] == null ? Double.NaN : EDGES[i]);
@@ -65,7 +65,7 @@ class StepsAgreementTest {
   void noLimitsOrBoundsLeaveFiniteValuesAlone(String action, SparkSession spark) {
     OutlierPlan o = new OutlierPlan("iqr", "both", action, null, null, null, null, null, null, "test");
     Dataset<Row> data = Fixtures.doubles(spark, "x", EDGES);
-    List<Row> rows = data.select(Treatments.afterOutliers("x", null, null, o)).collectAsList();
+    List<Row> rows = data.select(Treatments.afterOutliers(column(null, null, o))).collectAsList();
     NumericSteps steps = o.steps(null, null);
     for (int i = 0; i < EDGES.length; i++) {
       double java = steps.treated(EDGES[i] == null ? Double.NaN : EDGES[i]);
@@ -73,5 +73,11 @@ class StepsAgreementTest {
       Double got = spark1 == null ? Double.valueOf(Double.NaN) : (Double) spark1;
       assertThat(got).as("input %s", EDGES[i]).isEqualTo(Double.valueOf(java));
     }
+  }
+
+  /** Column x with these bounds and outlier decision, table-wide (no groups). */
+  private static dev.sluice.plan.ColumnPlan column(Double validMin, Double validMax, OutlierPlan o) {
+    return new dev.sluice.plan.ColumnPlan("x", "double", "numeric", "treat", true, validMin, validMax, "set-missing", o,
+        null, null, null, null);
   }
 }

@@ -1,0 +1,179 @@
+package dev.sluice.treat;
+
+import static org.assertj.core.api.Assertions.assertThat;
+import static org.assertj.core.api.Assertions.assertThatThrownBy;
+import static org.assertj.core.api.Assertions.within;
+
+import dev.sluice.Sluice;
+import dev.sluice.SluiceException;
+import dev.sluice.config.SettingsLoader;
+import dev.sluice.plan.ColumnPlan;
+import dev.sluice.plan.GroupFigures;
+import dev.sluice.plan.Plan;
+import dev.sluice.testing.Fixtures;
+import dev.sluice.testing.SharedSpark;
+import java.util.ArrayList;
+import java.util.Arrays;
+import java.util.HashMap;
+import java.util.List;
+import java.util.Map;
+import java.util.Optional;
+import org.apache.commons.math3.stat.descriptive.rank.Percentile;
+import org.apache.commons.math3.stat.ranking.NaNStrategy;
+import org.apache.commons.math3.util.KthSelector;
+import org.apache.spark.sql.Dataset;
+import org.apache.spark.sql.Row;
+import org.apache.spark.sql.RowFactory;
+import org.apache.spark.sql.SparkSession;
+import org.apache.spark.sql.functions;
+import org.apache.spark.sql.types.DataTypes;
+import org.apache.spark.sql.types.StructType;
+import org.junit.jupiter.api.Test;
+import org.junit.jupiter.api.extension.ExtendWith;
+
+/**
+ * Group-wise limits and fill values on a tiny table of our own: two depots on very different
+ * scales, each with one planted extreme, and a third too small for its own quartiles. Reference:
+ * Apache Commons Math's Percentile with estimation type R_1 (the inverse of the empirical
+ * distribution function, an actual value of the data, as Spark's percentile_approx returns on a
+ * group smaller than its accuracy), applied to each group's values by hand.
+ */
+@ExtendWith(SharedSpark.class)
+class GroupWiseTest {
+  /** D1: 1..99 and an extreme 400; D2: 1010..1600 by 10 and an extreme 5000; D3: 10 values. */
+  private static final Map<String, double[]> VALUES = new HashMap<>();
+
+  static {
+    double[] d1 = new double[100];
+    for (int i = 0; i < 99; i++) {
+      d1[i] = i + 1;
+    }
+    d1[99] = 400;
+    double[] d2 = new double[61];
+    for (int i = 0; i < 60; i++) {
+      d2[i] = 1010 + 10 * i;
+    }
+    d2[60] = 5000;
+    double[] d3 = {500, 510, 520, 530, 540, 550, 560, 570, 580, 590};
+    VALUES.put("D1", d1);
+    VALUES.put("D2", d2);
+    VALUES.put("D3", d3);
+  }
+
+  private static Dataset<Row> table(SparkSession spark, String... extraDepots) {
+    List<Row> rows = new ArrayList<>();
+    int id = 0;
+    for (String depot : List.of("D1", "D2", "D3")) {
+      for (double v : VALUES.get(depot)) {
+        rows.add(RowFactory.create("p" + id++, depot, v));
+      }
+      for (int k = 0; k < 3; k++) {
+        rows.add(RowFactory.create("p" + id++, depot, null));
+      }
+    }
+    for (String depot : extraDepots) {
+      rows.add(RowFactory.create("p" + id++, depot, 100000.0));
+      rows.add(RowFactory.create("p" + id++, depot, null));
+    }
+    StructType schema = new StructType().add("pallet", DataTypes.StringType).add("depot", DataTypes.StringType)
+        .add("dwell hours", DataTypes.DoubleType);
+    return spark.createDataFrame(rows, schema);
+  }
+
+  private static Plan fit(Dataset<Row> data, String... sets) {
+    List<String> all = new ArrayList<>(List.of("groups.by=[depot]", "columns.pallet.role=identifier",
+        "columns.depot.role=keep", "collinearity.enabled=false"));
+    all.addAll(List.of(sets));
+    return Sluice.fit(data, SettingsLoader.load(Optional.empty(), all), List.of()).plan();
+  }
+
+  private static double r1(double[] values, double p) {
+    return new Percentile().withEstimationType(Percentile.EstimationType.R_1)
+        .withNaNStrategy(NaNStrategy.FIXED).withKthSelector(new KthSelector()).evaluate(values, p * 100);
+  }
+
+  private static GroupFigures.Group group(ColumnPlan cp, String depot) {
+    return cp.groups().groups().stream().filter(g -> g.key().equals(List.of(depot))).findFirst().orElseThrow();
+  }
+
+  @Test
+  void eachGroupGetsTukeyFencesFromItsOwnQuartilesAndItsOwnMedianFill(SparkSession spark) {
+    Dataset<Row> data = table(spark);
+    Plan plan = fit(data);
+    ColumnPlan dwell = plan.column("dwell hours").orElseThrow();
+    assertThat(dwell.groups().by()).containsExactly("depot");
+    for (String depot : List.of("D1", "D2")) {
+      double[] v = VALUES.get(depot);
+      double q1 = r1(v, 0.25);
+      double q3 = r1(v, 0.75);
+      GroupFigures.Group g = group(dwell, depot);
+      assertThat(g.fallback()).isNull();
+      assertThat(g.usable()).isEqualTo(v.length);
+      // Tukey's inner fences, k = 1.5 (the default), on the group's own quartiles.
+      assertThat(g.lower()).as(depot).isCloseTo(q1 - 1.5 * (q3 - q1), within(1e-9));
+      assertThat(g.upper()).as(depot).isCloseTo(q3 + 1.5 * (q3 - q1), within(1e-9));
+      // Capping keeps the median in place: the fill is the group's median (R_1).
+      assertThat(g.fill()).as(depot).isCloseTo(r1(v, 0.5), within(1e-9));
+    }
+    GroupFigures.Group small = group(dwell, "D3");
+    assertThat(small.fallback()).isEqualTo("10 usable values, fewer than groups.min-values = 50: the table-wide figures apply");
+    assertThat(small.lower()).isNull();
+    assertThat(small.fill()).isNull();
+
+    Map<String, List<Double>> treated = new HashMap<>();
+    for (Row r : Sluice.treat(data, plan).collectAsList()) {
+      treated.computeIfAbsent(r.getString(1), k -> new ArrayList<>()).add(r.getDouble(2));
+    }
+    // D1's 400 lies inside the table-wide fences but far beyond D1's own: capped at D1's upper fence.
+    assertThat(treated.get("D1")).contains(group(dwell, "D1").upper()).doesNotContain(400.0);
+    assertThat(treated.get("D2")).contains(group(dwell, "D2").upper()).doesNotContain(5000.0);
+    assertThat(treated.get("D1").stream().filter(x -> x.equals(group(dwell, "D1").fill())).count()).isGreaterThanOrEqualTo(3);
+    // D3 takes the table-wide fill value.
+    assertThat(treated.get("D3").stream().filter(x -> x.equals(dwell.missing().fillNumber())).count()).isEqualTo(3);
+  }
+
+  @Test
+  void aMeanFillAfterCappingIsMeasuredOnTheCappedValues(SparkSession spark) {
+    Plan plan = fit(table(spark), "defaults.missing.strategy=mean");
+    ColumnPlan dwell = plan.column("dwell hours").orElseThrow();
+    for (String depot : List.of("D1", "D2")) {
+      GroupFigures.Group g = group(dwell, depot);
+      // By hand: each value capped at the group's fences, then the plain mean.
+      double expected = Arrays.stream(VALUES.get(depot)).map(x -> Math.max(g.lower(), Math.min(g.upper(), x)))
+          .average().orElseThrow();
+      // The plan publishes 12 significant digits.
+      assertThat(g.fill()).as(depot).isCloseTo(expected, within(1e-8));
+    }
+  }
+
+  @Test
+  void theSqlOfExplainAndASavedPlanTreatGroupsAlike(SparkSession spark) {
+    Dataset<Row> data = table(spark);
+    Plan plan = fit(data);
+    // A depot the fit never saw takes the table-wide limits and fill.
+    Dataset<Row> later = table(spark, "D9");
+    Dataset<Row> treated = Sluice.treat(later, plan);
+    ColumnPlan dwell = plan.column("dwell hours").orElseThrow();
+    List<Double> d9 = treated.filter(functions.col("depot").equalTo("D9")).select("`dwell hours`").as(
+        org.apache.spark.sql.Encoders.DOUBLE()).collectAsList();
+    assertThat(d9).containsExactlyInAnyOrder(dwell.outliers().upper(), dwell.missing().fillNumber());
+    later.createOrReplaceTempView("later_checks");
+    Dataset<Row> viaSql = spark.sql(PlanSql.select(spark, plan, "later_checks"));
+    Fixtures.assertSameRows(viaSql, treated);
+  }
+
+  @Test
+  void tooManyGroupsAndScaledGroupWiseColumnsAreRefused(SparkSession spark) {
+    Dataset<Row> data = table(spark);
+    assertThatThrownBy(() -> fit(data, "groups.max-groups=2"))
+        .isInstanceOf(SluiceException.class)
+        .hasMessage("The table has more than 2 groups of depot (groups.max-groups); group by fewer or coarser"
+            + " columns, or raise the limit");
+    assertThatThrownBy(() -> fit(data, "defaults.scaling=standard"))
+        .isInstanceOf(SluiceException.class)
+        .hasMessageContaining("with sluice.groups.by set, dwell hours would get group-wise limits or fill values");
+    assertThatThrownBy(() -> fit(data, "groups.by=[site]"))
+        .isInstanceOf(SluiceException.class)
+        .hasMessageStartingWith("sluice.groups.by names site, which the table lacks");
+  }
+}
