@@ -210,6 +210,9 @@ public final class Job {
     long d = System.nanoTime();
     DriftPass.Measured measured = DriftPass.measure(selected.wellFormed(), plan);
     seconds.put("drift", (System.nanoTime() - d) / 1e9);
+    measured.newGroups().filter(g -> g.rows() > 0).ifPresent(g -> say(g.rows() + " row(s) in about " + g.groups()
+        + " group(s) of " + String.join(", ", g.by()) + " that the plan has no figures of their own for:"
+        + " the table-wide limits and fill values apply to them"));
     say("treating and writing " + args.output() + "/treated with the saved plan (no refitting)");
     long t = System.nanoTime();
     // The drift pass counted the rows; malformed CSV lines are outside it, so they need the read's count.
@@ -231,6 +234,7 @@ public final class Job {
     record.put("columns_not_in_plan", fitting.notInPlan());
     record.put("plan_columns_skipped", fitting.skipped());
     record.put("drift", drift);
+    measured.newGroups().ifPresent(g -> record.put("rows_in_groups_without_figures", g.rows()));
     gates(record, plan.gates(), breaches, true);
     Outputs.json(spark, out.staged("run.json"), record);
     publish(table, out, record, plan.gates(), breaches);

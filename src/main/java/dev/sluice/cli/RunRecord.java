@@ -51,11 +51,12 @@ final class RunRecord {
     return out;
   }
 
-  /** The completion marker: which run finished, and its row counts. */
+  /** The completion marker: which run finished, how (succeeded, or gate limits passed), and its row counts. */
   static String marker(Map<String, Object> record) {
     Map<String, Object> m = new LinkedHashMap<>();
     m.put("run_id", record.get("run_id"));
     m.put("command", record.get("command"));
+    m.put("status", record.get("status"));
     m.put("rows", record.get("rows"));
     m.put("finished", record.get("finished"));
     try {

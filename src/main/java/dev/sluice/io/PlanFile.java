@@ -109,6 +109,13 @@ public final class PlanFile {
       throw SluiceException.input("The table lacks " + String.join(", ", missing.stream().map(PlanFile::shown).toList())
           + ", which the plan " + file + " treats (--skip-missing-columns leaves them out)");
     }
+    java.util.Set<String> by = new java.util.TreeSet<>();
+    plan.columns().stream().filter(cp -> cp.groups() != null).forEach(cp -> by.addAll(cp.groups().by()));
+    List<String> lackingGroups = by.stream().filter(b -> !types.containsKey(b)).toList();
+    if (!lackingGroups.isEmpty()) {
+      throw SluiceException.input("The table lacks " + String.join(", ", lackingGroups.stream().map(PlanFile::shown).toList())
+          + ", which the plan " + file + " groups by");
+    }
     if (!changed.isEmpty()) {
       throw SluiceException.input("Column(s) changed kind since the plan " + file + " was fitted: "
           + String.join(", ", changed));

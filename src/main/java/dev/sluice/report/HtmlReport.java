@@ -295,6 +295,13 @@ public final class HtmlReport {
       b.append(esc(cp.missing().strategy()));
     }
     b.append(". <span class=\"why\">").append(esc(cp.missing().reason())).append("</span></td></tr>");
+    if (cp.groups() != null) {
+      b.append("<tr><th>groups</th><td>by ").append(esc(String.join(", ", cp.groups().by()))).append(": ")
+          .append(cp.groups().own()).append(" of ").append(cp.groups().groups().size())
+          .append(" groups have limits and fill values of their own (listed in plan.json and by explain); the ")
+          .append("figures and counts above are for the table-wide limits and fill value, which the other groups ")
+          .append("take.</td></tr>");
+    }
     b.append("<tr><th>scaling</th><td>").append(esc(cp.scaling().method()));
     if (cp.scaling().active()) {
       b.append(": (x − ").append(num(cp.scaling().centre())).append(") / ").append(num(cp.scaling().scale()));

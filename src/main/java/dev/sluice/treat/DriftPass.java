@@ -17,6 +17,7 @@ import java.util.Map;
 import org.apache.spark.sql.Column;
 import org.apache.spark.sql.Dataset;
 import org.apache.spark.sql.Row;
+import org.apache.spark.sql.functions;
 
 /**
  * How far a table has moved from the one a saved plan was fitted on, per column, in one aggregate
@@ -49,7 +50,15 @@ public final class DriftPass {
    *     measure and so no pass
    * @param columns the drift of every column the plan has fit-time figures for, in plan order
    */
-  public record Measured(java.util.OptionalLong rows, List<Drift> columns) {}
+  public record Measured(java.util.OptionalLong rows, List<Drift> columns, java.util.Optional<NewGroups> newGroups) {}
+
+  /**
+   * Rows of groups that a group-wise plan never saw at fit time: they take the table-wide limits
+   * and fill values.
+   *
+   * @param groups how many such groups, approximately (HyperLogLog, Spark's approx_count_distinct)
+   */
+  public record NewGroups(List<String> by, long rows, long groups) {}
 
   public static Measured measure(Dataset<Row> data, Plan plan) {
     List<ColumnPlan> cols = new ArrayList<>();
@@ -72,8 +81,21 @@ public final class DriftPass {
         aggs.add(sum(when(Treatments.beyond(v, cp.withGroups(null)), 1L).otherwise(0L)));
       }
     }
-    if (cols.isEmpty()) {
-      return new Measured(java.util.OptionalLong.empty(), List.of());
+    // Rows outside every group of the plan: the same test as the CASE WHEN of the treatment.
+    java.util.Optional<dev.sluice.plan.GroupFigures> grouped = plan.columns().stream()
+        .filter(cp -> cp.groups() != null).map(ColumnPlan::groups).findFirst();
+    int groupsAt = aggs.size() + 1;
+    if (grouped.isPresent()) {
+      Column seen = lit(false);
+      for (dev.sluice.plan.GroupFigures.Group g : grouped.get().groups()) {
+        seen = seen.or(GroupPass.inGroup(grouped.get().by(), g.key()));
+      }
+      Column key = functions.struct(grouped.get().by().stream().map(Names::col).toArray(Column[]::new));
+      aggs.add(sum(when(functions.not(seen), 1L).otherwise(0L)));
+      aggs.add(functions.approx_count_distinct(when(functions.not(seen), key)));
+    }
+    if (aggs.isEmpty()) {
+      return new Measured(java.util.OptionalLong.empty(), List.of(), java.util.Optional.empty());
     }
     Row r = data.agg(count(lit(1)), aggs.toArray(new Column[0])).first();
     long rows = r.getLong(0);
@@ -101,7 +123,8 @@ public final class DriftPass {
       out.add(new Drift(cp.name(), f.nullRate(), nullNow,
           f.beyondShare() == null ? Double.NaN : f.beyondShare(), beyondNow, psi));
     }
-    return new Measured(java.util.OptionalLong.of(rows), out);
+    java.util.Optional<NewGroups> fresh = grouped.map(g -> new NewGroups(g.by(), value(r, groupsAt), value(r, groupsAt + 1)));
+    return new Measured(java.util.OptionalLong.of(rows), out, fresh);
   }
 
   private static long value(Row r, int i) {

@@ -35,7 +35,7 @@ class GatesTest {
         .contains("is above its limit 0.001").contains("held back under " + out + "/held");
     assertThat(out.resolve("treated")).doesNotExist();
     assertThat(out.resolve("held/treated")).isDirectory();
-    assertThat(out.resolve("_COMMITTED")).exists();
+    assertThat(json(out.resolve("_COMMITTED")).get("status").asText()).isEqualTo("gate limits passed");
     assertThat(out.resolve("summary.csv")).exists();
     assertThat(out.resolve("report.html")).exists();
     JsonNode record = json(out.resolve("run.json"));

@@ -159,7 +159,7 @@ class SavedPlanTest {
   }
 
   @Test
-  void aGroupWisePlanTreatsAsRunDoesAndExplainSaysSo(SparkSession spark) {
+  void aGroupWisePlanTreatsAsRunDoesAndExplainSaysSo(SparkSession spark) throws Exception {
     Path fitted = tmp.resolve("fit-groups");
     Runs.Result f = run("fit", "--input", "sample-parquet", "--output", fitted.toString(), "--config", "conf/sample.conf",
         "--set", "groups.by=[depot]");
@@ -177,6 +177,7 @@ class SavedPlanTest {
     Path ran = tmp.resolve("run-groups");
     assertThat(run("run", "--input", "sample-parquet", "--output", ran.toString(), "--config", "conf/sample.conf",
         "--set", "groups.by=[depot]").code()).isZero();
+    assertThat(Files.readString(ran.resolve("report.html"))).contains("6 of 6 groups have limits and fill values of their own");
     Path treated = tmp.resolve("treat-groups");
     Runs.Result r = run("treat", "--plan", groupPlan.toString(), "--input", "sample-parquet", "--output", treated.toString());
     assertThat(r.code()).as(r.err()).isZero();

@@ -157,6 +157,12 @@ class GroupWiseTest {
     List<Double> d9 = treated.filter(functions.col("depot").equalTo("D9")).select("`dwell hours`").as(
         org.apache.spark.sql.Encoders.DOUBLE()).collectAsList();
     assertThat(d9).containsExactlyInAnyOrder(dwell.outliers().upper(), dwell.missing().fillNumber());
+    DriftPass.NewGroups fresh = DriftPass.measure(later, plan).newGroups().orElseThrow();
+    assertThat(fresh.rows()).isEqualTo(2);
+    assertThat(fresh.groups()).isEqualTo(1);
+    assertThat(DriftPass.measure(data, plan).newGroups().orElseThrow().rows()).isZero();
+    assertThatThrownBy(() -> dev.sluice.io.PlanFile.check(plan, later.drop("depot").schema(), "plan.json", false))
+        .isInstanceOf(SluiceException.class).hasMessage("The table lacks depot, which the plan plan.json groups by");
     later.createOrReplaceTempView("later_checks");
     Dataset<Row> viaSql = spark.sql(PlanSql.select(spark, plan, "later_checks"));
     Fixtures.assertSameRows(viaSql, treated);
