@@ -110,7 +110,17 @@ public final class PlanFile {
           + ", which the plan " + file + " treats (--skip-missing-columns leaves them out)");
     }
     java.util.Set<String> by = new java.util.TreeSet<>();
-    plan.columns().stream().filter(cp -> cp.groups() != null).forEach(cp -> by.addAll(cp.groups().by()));
+    java.util.Set<List<Object>> groupings = new java.util.HashSet<>();
+    for (ColumnPlan cp : plan.columns()) {
+      if (cp.groups() != null) {
+        by.addAll(cp.groups().by());
+        groupings.add(List.of(cp.groups().by(), cp.groups().groups().stream().map(g -> g.key()).toList()));
+      }
+    }
+    if (groupings.size() > 1) {
+      throw SluiceException.usage("Plan file " + file + " is not a plan this Sluice can apply: its group-wise columns"
+          + " list different groups (every column of a plan lists the same)");
+    }
     List<String> lackingGroups = by.stream().filter(b -> !types.containsKey(b)).toList();
     if (!lackingGroups.isEmpty()) {
       throw SluiceException.input("The table lacks " + String.join(", ", lackingGroups.stream().map(PlanFile::shown).toList())

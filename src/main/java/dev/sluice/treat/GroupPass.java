@@ -102,13 +102,15 @@ public final class GroupPass {
   private static void secondPass(Dataset<Row> data, List<String> by, List<ColumnPlan> cols,
       Map<String, List<GroupFigures.Group>> figures, Map<String, List<GroupPlanner.Measured>> measured, int maxGroups) {
     List<Column> aggs = new ArrayList<>();
+    GroupFigures any = new GroupFigures(by, METHOD, 0, figures.get(cols.get(0).name()));
+    Dataset<Row> indexed = data.withColumn(Treatments.GROUP_INDEX, Treatments.groupIndex(any));
     for (ColumnPlan cp : cols) {
       Column after = Treatments.afterOutliers(cp.withGroups(new GroupFigures(by, METHOD, 0, figures.get(cp.name()))));
       aggs.add(cp.missing().strategy().equals("mean") ? avg(after)
           : percentile_approx(after, lit(0.5), lit(ACCURACY)));
     }
     Map<List<String>, Row> byKey = new HashMap<>();
-    for (Row r : grouped(data, by, aggs, maxGroups)) {
+    for (Row r : grouped(indexed, by, aggs, maxGroups)) {
       byKey.put(key(r, by.size()), r);
     }
     for (int j = 0; j < cols.size(); j++) {

@@ -32,14 +32,22 @@ public final class PlanSql {
 
   public static String select(SparkSession spark, Plan plan, String table) {
     StructType schema = schemaOf(plan);
-    Dataset<Row> empty = spark.createDataFrame(List.of(), schema);
+    Dataset<Row> empty = Treatments.withGroupIndex(spark.createDataFrame(List.of(), schema), plan);
     List<Column> projection = TreatedTable.projection(schema, plan);
     List<String> items = new ArrayList<>();
     for (NamedExpression e : projectList(empty.select(projection.toArray(new Column[0])))) {
       items.add(((Expression) e).sql());
     }
-    StringBuilder sql = new StringBuilder("SELECT\n  ").append(String.join(",\n  ", items))
-        .append("\nFROM ").append(quoteTable(table));
+    StringBuilder sql = new StringBuilder("SELECT\n  ").append(String.join(",\n  ", items)).append("\nFROM ");
+    java.util.Optional<dev.sluice.plan.GroupFigures> groups = Treatments.groups(plan);
+    if (groups.isPresent()) {
+      // Each row's group index, computed once, for the group-wise limits and fill values.
+      String index = ((Expression) projectList(empty.select(Treatments.groupIndex(groups.get())
+          .alias(Treatments.GROUP_INDEX))).get(0)).sql();
+      sql.append("(SELECT *, ").append(index).append(" FROM ").append(quoteTable(table)).append(") AS grouped_rows");
+    } else {
+      sql.append(quoteTable(table));
+    }
     if (TreatedTable.quarantines(plan, Optional.empty())) {
       Column keep = size(TreatedTable.reasons(plan, Optional.empty())).equalTo(0).alias("keep");
       String condition = ((Expression) projectList(empty.select(keep)).get(0)).sql();

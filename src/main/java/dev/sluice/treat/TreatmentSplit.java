@@ -29,10 +29,11 @@ public record TreatmentSplit(Dataset<Row> base, Dataset<Row> treated, Optional<D
   public static TreatmentSplit of(
       Dataset<Row> data, StructType schema, Optional<String> malformedColumn, Plan plan) {
     Column[] projection = TreatedTable.projection(schema, plan).toArray(new Column[0]);
+    Dataset<Row> indexed = Treatments.withGroupIndex(data, plan);
     if (!TreatedTable.quarantines(plan, malformedColumn)) {
-      return new TreatmentSplit(data, data.select(projection), Optional.empty());
+      return new TreatmentSplit(indexed, indexed.select(projection), Optional.empty());
     }
-    Dataset<Row> base = data.withColumn(WORK, TreatedTable.reasons(plan, malformedColumn));
+    Dataset<Row> base = indexed.withColumn(WORK, TreatedTable.reasons(plan, malformedColumn));
     Dataset<Row> treated = base.filter(size(col(WORK)).equalTo(0)).select(projection);
     Dataset<Row> held = base.filter(size(col(WORK)).gt(0))
         .select(TreatedTable.quarantineProjection(schema).toArray(new Column[0]));

@@ -169,6 +169,20 @@ class GroupWiseTest {
   }
 
   @Test
+  void quarantineByGroupLimitsHoldsBackTheRowsBeyondTheirOwnGroupsFences(SparkSession spark) {
+    Dataset<Row> data = table(spark);
+    Plan plan = fit(data, "defaults.outliers.action=quarantine");
+    // By hand from the R_1 quartiles: D1 fences [-50, 150] hold back 400; D2 [710, 1910] hold back
+    // 5000; D3 takes the table-wide fences, which its values 500..590 lie within.
+    List<Row> held = Sluice.quarantine(data, plan).collectAsList();
+    assertThat(held).extracting(r -> r.<String>getAs("quarantine_value")).containsExactlyInAnyOrder("400.0", "5000.0");
+    assertThat(held).extracting(r -> r.<String>getAs("quarantine_rule")).containsOnly("upper-limit");
+    assertThat(Sluice.treat(data, plan).count()).isEqualTo(data.count() - 2);
+    data.createOrReplaceTempView("checks_quarantine");
+    Fixtures.assertSameRows(spark.sql(PlanSql.select(spark, plan, "checks_quarantine")), Sluice.treat(data, plan));
+  }
+
+  @Test
   void tooManyGroupsAndScaledGroupWiseColumnsAreRefused(SparkSession spark) {
     Dataset<Row> data = table(spark);
     assertThatThrownBy(() -> fit(data, "groups.max-groups=2"))
