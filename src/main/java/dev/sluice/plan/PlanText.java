@@ -68,7 +68,8 @@ public final class PlanText {
     GroupFigures f = cp.groups();
     StringBuilder b = new StringBuilder();
     b.append(f.own()).append(" of ").append(f.groups().size()).append(" groups with figures of their own")
-        .append(" (quartiles ").append(f.quantileMethod()).append(", rank error at most ").append(num(f.rankError()))
+        .append(" (quartiles ").append(f.quantileMethod())
+        .append(f.rankError() > 0 ? ", rank error at most " + num(f.rankError()) : "")
         .append("); groups not listed take the table-wide figures");
     for (GroupFigures.Group g : f.groups()) {
       b.append("\n    ").append(g.key().stream().map(k -> k == null ? "null" : k).collect(java.util.stream.Collectors.joining(", ")))

@@ -56,6 +56,25 @@ public final class Quantiles {
     return result;
   }
 
+  /**
+   * The type 7 quantile p of n values known only through a window of them: {@code below} values
+   * lie below the window's smallest value and {@code window} holds, in ascending order, every value
+   * from there to its largest. NaN when the order statistics type 7 needs lie outside the window.
+   */
+  public static double type7InWindow(long n, double p, long below, double[] window) {
+    if (n <= 0) {
+      return Double.NaN;
+    }
+    double h = (n - 1) * p;
+    long r0 = (long) Math.floor(h);
+    long r1 = Math.min(r0 + 1, n - 1);
+    if (r0 < below || r1 >= below + window.length) {
+      return Double.NaN;
+    }
+    return r0 == n - 1 ? window[(int) (r0 - below)]
+        : between(window[(int) (r0 - below)], window[(int) (r1 - below)], h - r0);
+  }
+
   /** Linear interpolation at the zero-based fractional index h in [0, n - 1]. */
   private static double interpolate(double[] sorted, double h) {
     int lo = (int) Math.floor(h);

@@ -3,8 +3,9 @@ package dev.sluice.treat;
 import static org.apache.spark.sql.functions.avg;
 import static org.apache.spark.sql.functions.count;
 import static org.apache.spark.sql.functions.lit;
-import static org.apache.spark.sql.functions.percentile_approx;
 import static org.apache.spark.sql.functions.stddev_samp;
+import static org.apache.spark.sql.functions.sum;
+import static org.apache.spark.sql.functions.when;
 
 import dev.sluice.SluiceException;
 import dev.sluice.config.Settings;
@@ -12,32 +13,49 @@ import dev.sluice.io.Names;
 import dev.sluice.plan.ColumnPlan;
 import dev.sluice.plan.GroupFigures;
 import dev.sluice.plan.GroupPlanner;
+import dev.sluice.stats.Quantiles;
 import java.util.ArrayList;
 import java.util.Arrays;
 import java.util.Comparator;
 import java.util.HashMap;
+import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Map;
+import org.apache.datasketches.kll.KllSketch;
 import org.apache.spark.sql.Column;
 import org.apache.spark.sql.Dataset;
 import org.apache.spark.sql.Row;
 import org.apache.spark.sql.functions;
 
 /**
- * Group-wise limits and fill values: one grouped aggregate over every group-wise column gives each
- * group's count, quartiles, mean and standard deviation of the usable values; a second one, only
- * when a fill value does not follow from the first (a mean after capping, any figure after values
- * are removed), measures the values after the group's own outlier step. Quartiles and medians
- * come from Spark's {@code percentile_approx} at accuracy {@value #ACCURACY} (normalized rank
- * error at most 1 / accuracy; an actual value of the group, no interpolation).
+ * Group-wise limits and fill values, with exact type 7 quartiles and medians in every group.
+ *
+ * <p>Each search takes three grouped aggregates over every group-wise column at once. The first
+ * counts each group's usable values, their mean and standard deviation, and sketches them with
+ * Spark's KLL sketch (k = {@value #K}) to bracket each wanted rank within {@value #MARGIN} times
+ * the sketch's rank error. The second counts the values below each bracket; the third collects
+ * those inside it (from the few rows that have any), from which the quantile is read off exactly. The sketch only aims the brackets: the
+ * result does not depend on its random choices, and a bracket that misses (far beyond the
+ * sketch's stated error) is searched again, wider. The held values are about 2 x {@value #MARGIN}
+ * x 0.0007 of each group's values per quantile.
+ *
+ * <p>The limits come from the quartiles (or the mean and standard deviation) of the valid values;
+ * the fill value from the values after the group's own outlier step: read off the same search
+ * when the step moves no value across the median, else from a second search over those values.
  */
 public final class GroupPass {
-  /** Accuracy of percentile_approx for the group quartiles. */
-  static final int ACCURACY = 10_000;
-  static final String METHOD = "spark-percentile-approx";
+  /** The KLL sketch's size parameter: normalized rank error about 0.0007. */
+  static final int K = 4096;
+  /** Brackets span this many times the sketch's rank error either side of the wanted rank. */
+  static final double MARGIN = 4;
+  static final String METHOD = "exact-type7";
   private static final String KEY = "_sluice_group_";
+  private static final double[] QUARTILES = {0.25, 0.5, 0.75};
 
   private GroupPass() {}
+
+  /** What one search measured of one value expression in one group. */
+  record Stats(long usable, double mean, double stddev, double[] quantiles) {}
 
   /** The plan's columns with their group-wise figures; unchanged when groups.by is empty. */
   public static List<ColumnPlan> fit(Dataset<Row> data, List<ColumnPlan> columns, Settings settings) {
@@ -46,25 +64,19 @@ public final class GroupPass {
     if (by.isEmpty() || grouped.isEmpty()) {
       return columns;
     }
-    List<Column> aggs = new ArrayList<>();
-    for (ColumnPlan cp : grouped) {
-      Column v = Treatments.valid(cp.name(), cp.validMin(), cp.validMax());
-      aggs.add(count(v));
-      aggs.add(percentile_approx(v, functions.array(lit(0.25), lit(0.5), lit(0.75)), lit(ACCURACY)));
-      aggs.add(avg(v));
-      aggs.add(stddev_samp(v));
-    }
-    List<Row> first = grouped(data, by, aggs, settings.groups().maxGroups());
+    int maxGroups = settings.groups().maxGroups();
+    List<Column> valid = grouped.stream().map(cp -> Treatments.valid(cp.name(), cp.validMin(), cp.validMax())).toList();
+    Map<List<String>, Stats[]> first = search(data, by, valid, QUARTILES, maxGroups);
     Map<String, List<GroupFigures.Group>> figures = new HashMap<>();
-    Map<String, List<GroupPlanner.Measured>> measured = new HashMap<>();
     List<ColumnPlan> second = new ArrayList<>();
     for (int j = 0; j < grouped.size(); j++) {
       ColumnPlan cp = grouped.get(j);
       List<GroupFigures.Group> groups = new ArrayList<>();
-      List<GroupPlanner.Measured> ms = new ArrayList<>();
       boolean needsSecond = false;
-      for (Row r : first) {
-        GroupPlanner.Measured m = measured(r, by.size(), j);
+      for (Map.Entry<List<String>, Stats[]> e : first.entrySet()) {
+        Stats s = e.getValue()[j];
+        GroupPlanner.Measured m = new GroupPlanner.Measured(e.getKey(), s.usable(), s.quantiles()[0],
+            s.quantiles()[1], s.quantiles()[2], s.mean(), s.stddev());
         GroupFigures.Group g = GroupPlanner.limits(cp, settings.column(cp.name()).outliers(), m,
             settings.groups().minValues());
         if (g.fallback() == null && GroupPlanner.groupsFill(cp)) {
@@ -73,21 +85,19 @@ public final class GroupPass {
           g = GroupPlanner.withFill(g, fill);
         }
         groups.add(g);
-        ms.add(m);
       }
       figures.put(cp.name(), groups);
-      measured.put(cp.name(), ms);
       if (needsSecond) {
         second.add(cp);
       }
     }
     if (!second.isEmpty()) {
-      secondPass(data, by, second, figures, measured, settings.groups().maxGroups());
+      fillsAfterOutliers(data, by, second, figures, maxGroups);
     }
     List<ColumnPlan> out = new ArrayList<>();
     for (ColumnPlan cp : columns) {
       List<GroupFigures.Group> groups = figures.get(cp.name());
-      out.add(groups == null ? cp : cp.withGroups(new GroupFigures(by, METHOD, 1.0 / ACCURACY, groups)));
+      out.add(groups == null ? cp : cp.withGroups(new GroupFigures(by, METHOD, 0.0, groups)));
     }
     return out;
   }
@@ -98,21 +108,15 @@ public final class GroupPass {
         && (GroupPlanner.groupsLimits(cp) || GroupPlanner.groupsFill(cp));
   }
 
-  /** The fill values that needed the values after each group's own outlier step. */
-  private static void secondPass(Dataset<Row> data, List<String> by, List<ColumnPlan> cols,
-      Map<String, List<GroupFigures.Group>> figures, Map<String, List<GroupPlanner.Measured>> measured, int maxGroups) {
-    List<Column> aggs = new ArrayList<>();
+  /** The fill values that need the values after each group's own outlier step: their mean or median. */
+  private static void fillsAfterOutliers(Dataset<Row> data, List<String> by, List<ColumnPlan> cols,
+      Map<String, List<GroupFigures.Group>> figures, int maxGroups) {
     GroupFigures any = new GroupFigures(by, METHOD, 0, figures.get(cols.get(0).name()));
     Dataset<Row> indexed = data.withColumn(Treatments.GROUP_INDEX, Treatments.groupIndex(any));
-    for (ColumnPlan cp : cols) {
-      Column after = Treatments.afterOutliers(cp.withGroups(new GroupFigures(by, METHOD, 0, figures.get(cp.name()))));
-      aggs.add(cp.missing().strategy().equals("mean") ? avg(after)
-          : percentile_approx(after, lit(0.5), lit(ACCURACY)));
-    }
-    Map<List<String>, Row> byKey = new HashMap<>();
-    for (Row r : grouped(indexed, by, aggs, maxGroups)) {
-      byKey.put(key(r, by.size()), r);
-    }
+    List<Column> after = cols.stream()
+        .map(cp -> Treatments.afterOutliers(cp.withGroups(new GroupFigures(by, METHOD, 0, figures.get(cp.name())))))
+        .toList();
+    Map<List<String>, Stats[]> measured = search(indexed, by, after, new double[] {0.5}, maxGroups);
     for (int j = 0; j < cols.size(); j++) {
       ColumnPlan cp = cols.get(j);
       List<GroupFigures.Group> groups = figures.get(cp.name());
@@ -121,12 +125,156 @@ public final class GroupPass {
         if (g.fallback() != null || g.fill() != null) {
           continue;
         }
-        Row r = byKey.get(g.key());
-        int at = by.size() + j;
-        double fill = r == null || r.isNullAt(at) ? Double.NaN : ((Number) r.get(at)).doubleValue();
+        Stats s = measured.containsKey(g.key()) ? measured.get(g.key())[j] : null;
+        double fill = s == null ? Double.NaN : cp.missing().strategy().equals("mean") ? s.mean() : s.quantiles()[0];
         groups.set(i, GroupPlanner.withFill(g, fill));
       }
     }
+  }
+
+  /**
+   * Count, mean, standard deviation and the exact type 7 quantiles {@code ps} of each value
+   * expression (nulls left out) in every group, ordered by group key.
+   */
+  static Map<List<String>, Stats[]> search(Dataset<Row> data, List<String> by, List<Column> values, double[] ps,
+      int maxGroups) {
+    return search(data, by, values, ps, maxGroups, MARGIN);
+  }
+
+  /** {@link #search} with brackets of {@code margin} times the sketch's rank error (tests: 0). */
+  static Map<List<String>, Stats[]> search(Dataset<Row> data, List<String> by, List<Column> values, double[] ps,
+      int maxGroups, double margin) {
+    double eps = margin * KllSketch.getNormalizedRankError(K, false);
+    double[] ranks = new double[2 * ps.length];
+    for (int k = 0; k < ps.length; k++) {
+      ranks[2 * k] = Math.max(0, ps[k] - eps);
+      ranks[2 * k + 1] = Math.min(1, ps[k] + eps);
+    }
+    Column rankArray = functions.array(Arrays.stream(ranks).mapToObj(functions::lit).toArray(Column[]::new));
+    List<Column> aggs = new ArrayList<>();
+    for (Column v : values) {
+      aggs.add(count(v));
+      aggs.add(avg(v));
+      aggs.add(stddev_samp(v));
+      aggs.add(when(count(v).gt(0),
+          functions.call_function("kll_sketch_get_quantile_double", functions.call_function("kll_sketch_agg_double", v, lit(K)), rankArray)));
+    }
+    int keys = by.size();
+    Map<List<String>, long[]> counts = new LinkedHashMap<>();
+    Map<List<String>, double[][]> brackets = new LinkedHashMap<>();
+    Map<List<String>, Stats[]> out = new LinkedHashMap<>();
+    for (Row r : grouped(data, by, aggs, maxGroups)) {
+      List<String> key = key(r, keys);
+      long[] n = new long[values.size()];
+      double[][] b = new double[values.size()][];
+      Stats[] stats = new Stats[values.size()];
+      for (int j = 0; j < values.size(); j++) {
+        int at = keys + 4 * j;
+        n[j] = r.getLong(at);
+        b[j] = r.isNullAt(at + 3) ? null : r.getList(at + 3).stream().mapToDouble(x -> ((Number) x).doubleValue()).toArray();
+        stats[j] = new Stats(n[j], r.isNullAt(at + 1) ? Double.NaN : r.getDouble(at + 1),
+            r.isNullAt(at + 2) ? Double.NaN : r.getDouble(at + 2), new double[ps.length]);
+        Arrays.fill(stats[j].quantiles(), Double.NaN);
+      }
+      counts.put(key, n);
+      brackets.put(key, b);
+      out.put(key, stats);
+    }
+    // Each pending (group, value, quantile) is read off a window; a missed one is searched again, wider.
+    for (int attempt = 0; attempt < 3; attempt++) {
+      boolean pending = windows(data, by, values, ps, counts, brackets, out, maxGroups);
+      if (!pending) {
+        return out;
+      }
+      for (double[][] b : brackets.values()) {
+        for (int j = 0; j < b.length; j++) {
+          if (b[j] != null) {
+            for (int k = 0; k < ps.length; k++) {
+              // Wider each time; the last time, every value.
+              double width = attempt == 1 ? Double.POSITIVE_INFINITY : 8 * (b[j][2 * k + 1] - b[j][2 * k]) + 1;
+              b[j][2 * k] = b[j][2 * k] - width;
+              b[j][2 * k + 1] = b[j][2 * k + 1] + width;
+            }
+          }
+        }
+      }
+    }
+    throw new SluiceException(SluiceException.Kind.INTERNAL, "The exact search for group quartiles did not converge");
+  }
+
+  /**
+   * Per group, value and quantile, the count of values below the bracket and the values inside it
+   * (two grouped aggregates); fills in every quantile its window holds. True when some are left.
+   */
+  private static boolean windows(Dataset<Row> data, List<String> by, List<Column> values, double[] ps,
+      Map<List<String>, long[]> counts, Map<List<String>, double[][]> brackets, Map<List<String>, Stats[]> out,
+      int maxGroups) {
+    List<List<String>> keys = new ArrayList<>(out.keySet());
+    List<GroupFigures.Group> groups = keys.stream().map(k -> new GroupFigures.Group(k, 0, null, null, null, null)).toList();
+    Column index = Treatments.groupIndex(new GroupFigures(by, METHOD, 0, groups));
+    Dataset<Row> indexed = data.withColumn(KEY + "index", index);
+    List<Column> belowAggs = new ArrayList<>();
+    List<Column> windowAggs = new ArrayList<>();
+    Column anyInside = lit(false);
+    List<int[]> asked = new ArrayList<>();
+    for (int j = 0; j < values.size(); j++) {
+      for (int k = 0; k < ps.length; k++) {
+        List<Column> lows = new ArrayList<>(List.of(lit(Double.POSITIVE_INFINITY)));
+        List<Column> highs = new ArrayList<>(List.of(lit(Double.NEGATIVE_INFINITY)));
+        boolean any = false;
+        for (List<String> key : keys) {
+          double[] b = brackets.get(key)[j];
+          boolean open = b != null && Double.isNaN(out.get(key)[j].quantiles()[k]);
+          any |= open;
+          lows.add(lit(open ? b[2 * k] : Double.POSITIVE_INFINITY));
+          highs.add(lit(open ? b[2 * k + 1] : Double.NEGATIVE_INFINITY));
+        }
+        if (!any) {
+          continue;
+        }
+        Column at = functions.col(KEY + "index").plus(1);
+        Column lo = functions.element_at(functions.array(lows.toArray(new Column[0])), at);
+        Column hi = functions.element_at(functions.array(highs.toArray(new Column[0])), at);
+        Column v = values.get(j);
+        Column inside = v.geq(lo).and(v.leq(hi));
+        belowAggs.add(sum(when(v.lt(lo), 1L).otherwise(0L)));
+        windowAggs.add(functions.collect_list(when(inside, v)));
+        anyInside = anyInside.or(functions.coalesce(inside, lit(false)));
+        asked.add(new int[] {j, k});
+      }
+    }
+    if (asked.isEmpty()) {
+      return false;
+    }
+    // The counts below are one code-generated aggregate over every row; the values inside the
+    // windows, a slower collecting aggregate, only see the few rows that have one.
+    Map<List<String>, Row> below = new HashMap<>();
+    for (Row r : grouped(indexed, by, belowAggs, maxGroups)) {
+      below.put(key(r, by.size()), r);
+    }
+    Map<List<String>, Row> inside = new HashMap<>();
+    for (Row r : grouped(indexed.filter(anyInside), by, windowAggs, maxGroups)) {
+      inside.put(key(r, by.size()), r);
+    }
+    boolean left = false;
+    for (List<String> key : keys) {
+      for (int a = 0; a < asked.size(); a++) {
+        int j = asked.get(a)[0];
+        int k = asked.get(a)[1];
+        Stats s = out.get(key)[j];
+        if (brackets.get(key)[j] == null || !Double.isNaN(s.quantiles()[k])) {
+          continue;
+        }
+        Row b = below.get(key);
+        Row w = inside.get(key);
+        long n = b == null || b.isNullAt(by.size() + a) ? 0 : b.getLong(by.size() + a);
+        double[] window = w == null ? new double[0]
+            : w.getList(by.size() + a).stream().mapToDouble(x -> ((Number) x).doubleValue()).sorted().toArray();
+        s.quantiles()[k] = Quantiles.type7InWindow(counts.get(key)[j], ps[k], n, window);
+        left |= Double.isNaN(s.quantiles()[k]);
+      }
+    }
+    return left;
   }
 
   /**
@@ -134,7 +282,10 @@ public final class GroupPass {
    * columns first, as text), collected to the driver; more groups are refused.
    */
   private static List<Row> grouped(Dataset<Row> data, List<String> by, List<Column> aggs, int maxGroups) {
-    Column[] keys = by.stream().map(b -> Names.col(b).cast("string").alias(KEY + by.indexOf(b))).toArray(Column[]::new);
+    Column[] keys = new Column[by.size()];
+    for (int i = 0; i < keys.length; i++) {
+      keys[i] = Names.col(by.get(i)).cast("string").alias(KEY + i);
+    }
     List<Row> rows = data.groupBy(keys).agg(aggs.get(0), aggs.subList(1, aggs.size()).toArray(new Column[0]))
         .limit(maxGroups + 1).collectAsList();
     if (rows.size() > maxGroups) {
@@ -144,21 +295,6 @@ public final class GroupPass {
     List<Row> sorted = new ArrayList<>(rows);
     sorted.sort(Comparator.comparing(r -> key(r, by.size()), GroupPass::compareKeys));
     return sorted;
-  }
-
-  private static GroupPlanner.Measured measured(Row r, int keys, int column) {
-    int at = keys + 4 * column;
-    long usable = r.getLong(at);
-    double[] q = {Double.NaN, Double.NaN, Double.NaN};
-    if (!r.isNullAt(at + 1)) {
-      List<Object> qs = r.getList(at + 1);
-      for (int k = 0; k < 3; k++) {
-        q[k] = ((Number) qs.get(k)).doubleValue();
-      }
-    }
-    double mean = r.isNullAt(at + 2) ? Double.NaN : r.getDouble(at + 2);
-    double sd = r.isNullAt(at + 3) ? Double.NaN : r.getDouble(at + 3);
-    return new GroupPlanner.Measured(key(r, keys), usable, q[0], q[1], q[2], mean, sd);
   }
 
   private static List<String> key(Row r, int keys) {

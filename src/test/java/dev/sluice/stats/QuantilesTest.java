@@ -118,4 +118,24 @@ class QuantilesTest {
     assertThatThrownBy(() -> Quantiles.type7Of(new double[] {1, Double.NaN}, 0.5))
         .isInstanceOf(IllegalArgumentException.class).hasMessage("Cannot take quantiles of NaN values");
   }
+
+  @org.junit.jupiter.api.Test
+  void aWindowThatHoldsTheOrderStatisticsGivesTheWholeArraysType7() {
+    // Reference: type 7 over all twelve NIST wafer values, against windows of them.
+    double[] sorted = WAFERS.clone();
+    java.util.Arrays.sort(sorted);
+    for (double p : new double[] {0.0, 0.25, 0.5, 0.75, 0.9, 1.0}) {
+      double whole = Quantiles.type7(sorted, p);
+      double h = (sorted.length - 1) * p;
+      int from = (int) Math.max(0, Math.floor(h) - 2);
+      int to = (int) Math.min(sorted.length, Math.floor(h) + 3);
+      double[] window = java.util.Arrays.copyOfRange(sorted, from, to);
+      org.assertj.core.api.Assertions.assertThat(Quantiles.type7InWindow(sorted.length, p, from, window))
+          .as("p = %s", p).isEqualTo(whole);
+    }
+    // p = 0.5: h = 5.5 needs order statistics 5 and 6; a window of 2..5 misses the 6th.
+    org.assertj.core.api.Assertions.assertThat(
+        Quantiles.type7InWindow(12, 0.5, 2, java.util.Arrays.copyOfRange(sorted, 2, 6))).isNaN();
+    org.assertj.core.api.Assertions.assertThat(Quantiles.type7InWindow(0, 0.5, 0, new double[0])).isNaN();
+  }
 }

@@ -34,9 +34,8 @@ import org.junit.jupiter.api.extension.ExtendWith;
 /**
  * Group-wise limits and fill values on a tiny table of our own: two depots on very different
  * scales, each with one planted extreme, and a third too small for its own quartiles. Reference:
- * Apache Commons Math's Percentile with estimation type R_1 (the inverse of the empirical
- * distribution function, an actual value of the data, as Spark's percentile_approx returns on a
- * group smaller than its accuracy), applied to each group's values by hand.
+ * Apache Commons Math's Percentile with estimation type R_7 (Hyndman and Fan type 7, the exact
+ * quantiles the plan states), applied to each group's values.
  */
 @ExtendWith(SharedSpark.class)
 class GroupWiseTest {
@@ -87,8 +86,8 @@ class GroupWiseTest {
     return Sluice.fit(data, SettingsLoader.load(Optional.empty(), all), List.of()).plan();
   }
 
-  private static double r1(double[] values, double p) {
-    return new Percentile().withEstimationType(Percentile.EstimationType.R_1)
+  private static double r7(double[] values, double p) {
+    return new Percentile().withEstimationType(Percentile.EstimationType.R_7)
         .withNaNStrategy(NaNStrategy.FIXED).withKthSelector(new KthSelector()).evaluate(values, p * 100);
   }
 
@@ -102,18 +101,20 @@ class GroupWiseTest {
     Plan plan = fit(data);
     ColumnPlan dwell = plan.column("dwell hours").orElseThrow();
     assertThat(dwell.groups().by()).containsExactly("depot");
+    assertThat(dwell.groups().quantileMethod()).isEqualTo("exact-type7");
+    assertThat(group(dwell, "D1").lower()).isEqualTo(-48.5);
     for (String depot : List.of("D1", "D2")) {
       double[] v = VALUES.get(depot);
-      double q1 = r1(v, 0.25);
-      double q3 = r1(v, 0.75);
+      double q1 = r7(v, 0.25);
+      double q3 = r7(v, 0.75);
       GroupFigures.Group g = group(dwell, depot);
       assertThat(g.fallback()).isNull();
       assertThat(g.usable()).isEqualTo(v.length);
       // Tukey's inner fences, k = 1.5 (the default), on the group's own quartiles.
       assertThat(g.lower()).as(depot).isCloseTo(q1 - 1.5 * (q3 - q1), within(1e-9));
       assertThat(g.upper()).as(depot).isCloseTo(q3 + 1.5 * (q3 - q1), within(1e-9));
-      // Capping keeps the median in place: the fill is the group's median (R_1).
-      assertThat(g.fill()).as(depot).isCloseTo(r1(v, 0.5), within(1e-9));
+      // Capping keeps the median in place: the fill is the group's median.
+      assertThat(g.fill()).as(depot).isCloseTo(r7(v, 0.5), within(1e-9));
     }
     GroupFigures.Group small = group(dwell, "D3");
     assertThat(small.fallback()).isEqualTo("10 usable values, fewer than groups.min-values = 50: the table-wide figures apply");
@@ -172,14 +173,36 @@ class GroupWiseTest {
   void quarantineByGroupLimitsHoldsBackTheRowsBeyondTheirOwnGroupsFences(SparkSession spark) {
     Dataset<Row> data = table(spark);
     Plan plan = fit(data, "defaults.outliers.action=quarantine");
-    // By hand from the R_1 quartiles: D1 fences [-50, 150] hold back 400; D2 [710, 1910] hold back
-    // 5000; D3 takes the table-wide fences, which its values 500..590 lie within.
+    // By hand from the type 7 quartiles: D1 (Q1 25.75, Q3 75.25) fences [-48.5, 149.5] hold back
+    // 400; D2 (1160, 1460) [710, 1910] hold back 5000; D3 takes the table-wide fences, which its
+    // values 500..590 lie within.
     List<Row> held = Sluice.quarantine(data, plan).collectAsList();
     assertThat(held).extracting(r -> r.<String>getAs("quarantine_value")).containsExactlyInAnyOrder("400.0", "5000.0");
     assertThat(held).extracting(r -> r.<String>getAs("quarantine_rule")).containsOnly("upper-limit");
     assertThat(Sluice.treat(data, plan).count()).isEqualTo(data.count() - 2);
     data.createOrReplaceTempView("checks_quarantine");
     Fixtures.assertSameRows(spark.sql(PlanSql.select(spark, plan, "checks_quarantine")), Sluice.treat(data, plan));
+  }
+
+  @Test
+  void theExactSearchWidensABracketThatMissesAndStillFindsTheType7Quantiles(SparkSession spark) {
+    // Brackets of zero width around the sketch's guesses miss whenever type 7 interpolates between
+    // two values: the search widens them and must still land on the exact quantiles.
+    double[] ps = {0.1, 0.25, 0.5, 0.75, 0.9};
+    for (double margin : new double[] {0, GroupPass.MARGIN}) {
+      Map<List<String>, GroupPass.Stats[]> found = GroupPass.search(table(spark), List.of("depot"),
+          List.of(functions.col("`dwell hours`")), ps, 10, margin);
+      assertThat(found.keySet()).containsExactly(List.of("D1"), List.of("D2"), List.of("D3"));
+      for (String depot : List.of("D1", "D2", "D3")) {
+        GroupPass.Stats s = found.get(List.of(depot))[0];
+        double[] v = VALUES.get(depot);
+        assertThat(s.usable()).isEqualTo(v.length);
+        assertThat(s.mean()).isCloseTo(Arrays.stream(v).average().orElseThrow(), within(1e-9));
+        for (int k = 0; k < ps.length; k++) {
+          assertThat(s.quantiles()[k]).as("%s p %s margin %s", depot, ps[k], margin).isCloseTo(r7(v, ps[k]), within(1e-9));
+        }
+      }
+    }
   }
 
   @Test
