@@ -80,7 +80,7 @@ public final class Sluice {
       progress.accept("group-wise limits and fill values by " + String.join(", ", settings.groups().by())
           + " (one grouped aggregate, two when a fill value needs the values after the group's outlier step)");
       long t2 = System.nanoTime();
-      plan = plan.withColumns(GroupPass.fit(data, plan.columns(), settings));
+      plan = plan.withColumns(GroupPass.fit(data, plan.columns(), settings, profile.rows()));
       seconds.put("groups", elapsed(t2));
     }
     TreatedTable.checkNoCollisions(data.schema(), plan);

@@ -36,16 +36,20 @@ import org.apache.spark.sql.functions;
  * the sketch's rank error. The second counts the values below each bracket; the third collects
  * those inside it (from the few rows that have any), from which the quantile is read off exactly. The sketch only aims the brackets: the
  * result does not depend on its random choices, and a bracket that misses (far beyond the
- * sketch's stated error) is searched again, wider. The held values are about 2 x {@value #MARGIN}
- * x 0.0007 of each group's values per quantile.
+ * sketch's stated error) is searched again, wider. The values held on the driver are about
+ * 2 x {@value #MARGIN} x the sketch's rank error of each group's values per quantile; the sketch is
+ * made finer (k up to {@value #MAX_K}) so that they stay within {@code quantiles.max-held-values}
+ * where it can.
  *
  * <p>The limits come from the quartiles (or the mean and standard deviation) of the valid values;
  * the fill value from the values after the group's own outlier step: read off the same search
  * when the step moves no value across the median, else from a second search over those values.
  */
 public final class GroupPass {
-  /** The KLL sketch's size parameter: normalized rank error about 0.0007. */
+  /** The KLL sketch's smallest size parameter: normalized rank error about 0.0007. */
   static final int K = 4096;
+  /** The largest size parameter Spark's KLL sketch takes. */
+  static final int MAX_K = 65535;
   /** Brackets span this many times the sketch's rank error either side of the wanted rank. */
   static final double MARGIN = 4;
   static final String METHOD = "exact-type7";
@@ -58,7 +62,7 @@ public final class GroupPass {
   record Stats(long usable, double mean, double stddev, double[] quantiles) {}
 
   /** The plan's columns with their group-wise figures; unchanged when groups.by is empty. */
-  public static List<ColumnPlan> fit(Dataset<Row> data, List<ColumnPlan> columns, Settings settings) {
+  public static List<ColumnPlan> fit(Dataset<Row> data, List<ColumnPlan> columns, Settings settings, long rows) {
     List<String> by = settings.groups().by();
     List<ColumnPlan> grouped = columns.stream().filter(GroupPass::grouped).toList();
     if (by.isEmpty() || grouped.isEmpty()) {
@@ -66,7 +70,9 @@ public final class GroupPass {
     }
     int maxGroups = settings.groups().maxGroups();
     List<Column> valid = grouped.stream().map(cp -> Treatments.valid(cp.name(), cp.validMin(), cp.validMax())).toList();
-    Map<List<String>, Stats[]> first = search(data, by, valid, QUARTILES, maxGroups);
+    int maxHeld = settings.quantiles().maxHeldValues();
+    Map<List<String>, Stats[]> first = search(data, by, valid, QUARTILES, maxGroups, MARGIN,
+        sketchSize(rows, valid.size() * QUARTILES.length, maxHeld));
     Map<String, List<GroupFigures.Group>> figures = new HashMap<>();
     List<ColumnPlan> second = new ArrayList<>();
     for (int j = 0; j < grouped.size(); j++) {
@@ -92,7 +98,7 @@ public final class GroupPass {
       }
     }
     if (!second.isEmpty()) {
-      fillsAfterOutliers(data, by, second, figures, maxGroups);
+      fillsAfterOutliers(data, by, second, figures, maxGroups, sketchSize(rows, second.size(), maxHeld));
     }
     List<ColumnPlan> out = new ArrayList<>();
     for (ColumnPlan cp : columns) {
@@ -110,13 +116,13 @@ public final class GroupPass {
 
   /** The fill values that need the values after each group's own outlier step: their mean or median. */
   private static void fillsAfterOutliers(Dataset<Row> data, List<String> by, List<ColumnPlan> cols,
-      Map<String, List<GroupFigures.Group>> figures, int maxGroups) {
+      Map<String, List<GroupFigures.Group>> figures, int maxGroups, int k) {
     GroupFigures any = new GroupFigures(by, METHOD, 0, figures.get(cols.get(0).name()));
     Dataset<Row> indexed = data.withColumn(Treatments.GROUP_INDEX, Treatments.groupIndex(any));
     List<Column> after = cols.stream()
         .map(cp -> Treatments.afterOutliers(cp.withGroups(new GroupFigures(by, METHOD, 0, figures.get(cp.name())))))
         .toList();
-    Map<List<String>, Stats[]> measured = search(indexed, by, after, new double[] {0.5}, maxGroups);
+    Map<List<String>, Stats[]> measured = search(indexed, by, after, new double[] {0.5}, maxGroups, MARGIN, k);
     for (int j = 0; j < cols.size(); j++) {
       ColumnPlan cp = cols.get(j);
       List<GroupFigures.Group> groups = figures.get(cp.name());
@@ -138,13 +144,29 @@ public final class GroupPass {
    */
   static Map<List<String>, Stats[]> search(Dataset<Row> data, List<String> by, List<Column> values, double[] ps,
       int maxGroups) {
-    return search(data, by, values, ps, maxGroups, MARGIN);
+    return search(data, by, values, ps, maxGroups, MARGIN, K);
   }
 
-  /** {@link #search} with brackets of {@code margin} times the sketch's rank error (tests: 0). */
+  /**
+   * The smallest sketch size from {@value #K} up whose windows are expected to hold at most
+   * {@code maxHeld} values for {@code quantiles} quantiles of {@code rows} rows ({@value #MAX_K} at
+   * most).
+   */
+  static int sketchSize(long rows, int quantiles, int maxHeld) {
+    int k = K;
+    while (k < MAX_K && 2 * MARGIN * KllSketch.getNormalizedRankError(k, false) * rows * quantiles > maxHeld) {
+      k = Math.min(MAX_K, 2 * k);
+    }
+    return k;
+  }
+
+  /**
+   * {@link #search} with brackets of {@code margin} times the rank error of a sketch of size
+   * {@code k} (tests: margin 0).
+   */
   static Map<List<String>, Stats[]> search(Dataset<Row> data, List<String> by, List<Column> values, double[] ps,
-      int maxGroups, double margin) {
-    double eps = margin * KllSketch.getNormalizedRankError(K, false);
+      int maxGroups, double margin, int sketch) {
+    double eps = margin * KllSketch.getNormalizedRankError(sketch, false);
     double[] ranks = new double[2 * ps.length];
     for (int k = 0; k < ps.length; k++) {
       ranks[2 * k] = Math.max(0, ps[k] - eps);
@@ -157,7 +179,7 @@ public final class GroupPass {
       aggs.add(avg(v));
       aggs.add(stddev_samp(v));
       aggs.add(when(count(v).gt(0),
-          functions.call_function("kll_sketch_get_quantile_double", functions.call_function("kll_sketch_agg_double", v, lit(K)), rankArray)));
+          functions.call_function("kll_sketch_get_quantile_double", functions.call_function("kll_sketch_agg_double", v, lit(sketch)), rankArray)));
     }
     int keys = by.size();
     Map<List<String>, long[]> counts = new LinkedHashMap<>();

@@ -191,7 +191,7 @@ class GroupWiseTest {
     double[] ps = {0.1, 0.25, 0.5, 0.75, 0.9};
     for (double margin : new double[] {0, GroupPass.MARGIN}) {
       Map<List<String>, GroupPass.Stats[]> found = GroupPass.search(table(spark), List.of("depot"),
-          List.of(functions.col("`dwell hours`")), ps, 10, margin);
+          List.of(functions.col("`dwell hours`")), ps, 10, margin, GroupPass.K);
       assertThat(found.keySet()).containsExactly(List.of("D1"), List.of("D2"), List.of("D3"));
       for (String depot : List.of("D1", "D2", "D3")) {
         GroupPass.Stats s = found.get(List.of(depot))[0];
@@ -203,6 +203,14 @@ class GroupWiseTest {
         }
       }
     }
+  }
+
+  @Test
+  void theSketchGrowsWithTheTableSoThatTheWindowsStayWithinTheHeldValues() {
+    // Normalized rank errors of the KLL sketch as Apache DataSketches states them (KllSketch).
+    assertThat(GroupPass.sketchSize(10_000_000, 30, 8_000_000)).isEqualTo(4096);
+    assertThat(GroupPass.sketchSize(100_000_000, 30, 8_000_000)).isEqualTo(16384);
+    assertThat(GroupPass.sketchSize(10_000_000_000L, 30, 8_000_000)).isEqualTo(GroupPass.MAX_K);
   }
 
   @Test
