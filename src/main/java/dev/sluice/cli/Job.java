@@ -110,7 +110,9 @@ public final class Job {
       CompletableFuture<Double> tables = CompletableFuture.supplyAsync(() -> timed(() -> writeTables(fit, out)),
           BESIDE);
       try {
-        rows.putAll(writeTreated(selected, fit.plan(), out, read));
+        Map<String, Long> written = writeTreated(selected, fit.plan(), out);
+        reconcile(read, written);
+        rows.putAll(written);
       } catch (RuntimeException e) {
         awaitQuietly(tables, e);
         throw e;
@@ -206,23 +208,27 @@ public final class Job {
       say("columns of the plan the table lacks, left out: " + String.join(", ", fitting.skipped()));
     }
     Map<String, Double> seconds = new LinkedHashMap<>();
+    Map<String, Object> rows = new LinkedHashMap<>();
+    // Drift in an aggregate pass of its own: observed in the writing pass instead (Dataset.observe),
+    // it lengthened the write by more than this pass takes (docs/benchmarks.md).
     say("measuring drift from the plan's fit-time figures (one pass)");
     long d = System.nanoTime();
     DriftPass.Measured measured = DriftPass.measure(selected.wellFormed(), plan);
     seconds.put("drift", (System.nanoTime() - d) / 1e9);
-    measured.newGroups().filter(g -> g.rows() > 0).ifPresent(g -> say(g.rows() + " row(s) in about " + g.groups()
-        + " group(s) of " + String.join(", ", g.by()) + " that the plan has no figures of their own for:"
-        + " the table-wide limits and fill values apply to them"));
     say("treating and writing " + args.output() + "/treated with the saved plan (no refitting)");
     long t = System.nanoTime();
     // The drift pass counted the rows; malformed CSV lines are outside it, so they need the read's count.
     long read = selected.rowsRead().isPresent() ? selected.rowsRead().getAsLong()
         : measured.rows().isPresent() && selected.malformedColumn().isEmpty() ? measured.rows().getAsLong()
         : selected.data().count();
-    Map<String, Object> rows = new LinkedHashMap<>();
+    Map<String, Long> written = writeTreated(selected, plan, out);
+    reconcile(read, written);
     rows.put("read", read);
-    rows.putAll(writeTreated(selected, plan, out, read));
+    rows.putAll(written);
     seconds.put("treat-and-write", (System.nanoTime() - t) / 1e9);
+    measured.newGroups().filter(g -> g.rows() > 0).ifPresent(g -> say(g.rows() + " row(s) in about " + g.groups()
+        + " group(s) of " + String.join(", ", g.by()) + " that the plan has no figures of their own for:"
+        + " the table-wide limits and fill values apply to them"));
     List<GateCheck.Breach> breaches = GateCheck.check(plan.gates(), DriftPass.readings(measured.columns()),
         quarantinedShare(rows));
     List<Map<String, Object>> drift = DriftPass.rows(measured.columns(), breaches);
@@ -291,8 +297,8 @@ public final class Job {
     }
   }
 
-  /** Treated and quarantined rows from one read of the input, counted, then cross-checked. */
-  private Map<String, Long> writeTreated(InputTable table, Plan plan, OutputLayout out, long read) {
+  /** Treated and quarantined rows from one read of the input, counted; the caller reconciles them. */
+  private Map<String, Long> writeTreated(InputTable table, Plan plan, OutputLayout out) {
     TreatmentSplit split = TreatmentSplit.of(
         table.data(), table.wellFormed().schema(), table.malformedColumn(), plan);
     if (split.quarantined().isPresent() && table.malformedColumn().isEmpty()) {
@@ -305,14 +311,20 @@ public final class Job {
       held = write(split.quarantined().get(), out.staged("quarantine"), parts, "sluice-quarantined");
       split.base().unpersist();
     }
-    if (read != treated + held) {
-      throw new SluiceException(SluiceException.Kind.INTERNAL, "Rows do not reconcile: read " + read
-          + ", treated " + treated + ", quarantined " + held + "; nothing was published");
-    }
     Map<String, Long> rows = new LinkedHashMap<>();
     rows.put("treated", treated);
     rows.put("quarantined", held);
     return rows;
+  }
+
+  /** Every row read is treated or quarantined, or nothing is published. */
+  private static void reconcile(long read, Map<String, Long> written) {
+    long treated = written.get("treated");
+    long held = written.get("quarantined");
+    if (read != treated + held) {
+      throw new SluiceException(SluiceException.Kind.INTERNAL, "Rows do not reconcile: read " + read
+          + ", treated " + treated + ", quarantined " + held + "; nothing was published");
+    }
   }
 
   /**

@@ -140,7 +140,8 @@ public final class SettingsLoader {
   /**
    * For {@code treat}, whose treatment comes from the plan: refuses every setting that differs
    * from reference.conf other than the gates ({@code gates}, {@code defaults.limits}, {@code
-   * columns."<name>".limits}) and the Spark session's ({@code spark}).
+   * columns."<name>".limits}), how the input is read ({@code input}) and the Spark session's
+   * ({@code spark}).
    *
    * @return the keys that differ from reference.conf, in HOCON path syntax (sluice.gates.on-breach)
    */
@@ -149,7 +150,7 @@ public final class SettingsLoader {
     List<String> other = new ArrayList<>();
     for (String key : given) {
       List<String> p = ConfigUtil.splitPath(key);
-      boolean gate = p.get(1).equals("gates") || p.get(1).equals("spark")
+      boolean gate = p.get(1).equals("gates") || p.get(1).equals("spark") || p.get(1).equals("input")
           || p.get(1).equals("defaults") && p.size() > 2 && p.get(2).equals("limits")
           || p.get(1).equals("columns") && p.size() > 3 && p.get(3).equals("limits");
       if (!gate) {
@@ -158,7 +159,7 @@ public final class SettingsLoader {
     }
     if (!other.isEmpty()) {
       throw SluiceException.usage("treat takes its treatment from the plan; of the settings only gates,"
-          + " limits and spark may be given, not " + String.join(", ", other.subList(0, Math.min(5, other.size())))
+          + " limits, input and spark may be given, not " + String.join(", ", other.subList(0, Math.min(5, other.size())))
           + (other.size() > 5 ? " and " + (other.size() - 5) + " more" : ""));
     }
     return given;

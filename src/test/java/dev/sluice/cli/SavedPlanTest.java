@@ -108,6 +108,11 @@ class SavedPlanTest {
     Path treated = tmp.resolve("treat-quarantine");
     assertThat(run("treat", "--plan", quarantinePlan.toString(), "--input", "sample-parquet",
         "--output", treated.toString()).code()).isZero();
+    // Drift is observed while writing; with rows held back too, it still covers every row read.
+    for (JsonNode d : json(treated.resolve("run.json")).get("drift")) {
+      assertThat(d.get("null_rate_now").asDouble()).as(d.toString()).isCloseTo(d.get("null_rate_fit").asDouble(), within(1e-11));
+    }
+    assertThat(json(treated.resolve("run.json")).at("/rows/read").asLong()).isEqualTo(20000);
     Runs.Result sql = run("explain", "--plan", quarantinePlan.toString(), "--sql", "--table", "pallet checks");
     assertThat(sql.code()).as(sql.err()).isZero();
     assertThat(sql.out()).startsWith("SELECT").contains("FROM `pallet checks`").contains("WHERE");

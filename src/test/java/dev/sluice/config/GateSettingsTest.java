@@ -56,7 +56,7 @@ class GateSettingsTest {
     assertThatThrownBy(() -> SettingsLoader.requireOnlyGates(Optional.empty(),
         List.of("defaults.limits.psi=0.3", "defaults.outliers.iqr-k=3")))
         .isInstanceOf(SluiceException.class)
-        .hasMessage("treat takes its treatment from the plan; of the settings only gates, limits and spark may be given,"
+        .hasMessage("treat takes its treatment from the plan; of the settings only gates, limits, input and spark may be given,"
             + " not sluice.defaults.outliers.iqr-k");
   }
 }

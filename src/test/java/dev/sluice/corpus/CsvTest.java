@@ -10,6 +10,7 @@ import static dev.sluice.corpus.Corpus.text;
 import static dev.sluice.corpus.Corpus.treated;
 import static org.assertj.core.api.Assertions.assertThat;
 
+import com.fasterxml.jackson.databind.JsonNode;
 import dev.sluice.testing.SharedSpark;
 import java.nio.file.Files;
 import java.nio.file.Path;
@@ -51,6 +52,29 @@ class CsvTest {
         .containsExactly("PL-2,4.0", "PL-3,2.5,3,9");
     assertThat(treated(spark, out()).orderBy("pallet_id").collectAsList())
         .extracting(x -> x.<String>getAs("pallet_id")).containsExactly("PL-1", "PL-4", "PL-5");
+  }
+
+  @Test
+  void treatOnCsvCountsMalformedLinesInAndMeasuresDriftOnTheOthers(SparkSession spark) {
+    Path fitCsv = text(tmp.resolve("depot-5-fit.csv"), "pallet_id,air_temp_c,door_openings\n"
+        + "PL-1,3.5,4\nPL-2,4.0,2\nPL-3,2.5,3\nPL-4,3.0,2\nPL-5,3.2,1\n");
+    Path fitted = tmp.resolve("fitted");
+    Corpus.Result f = run("fit", fitCsv, fitted, "--set", SCHEMA);
+    assertThat(f.code()).as(f.shown()).isZero();
+    Path dayCsv = text(tmp.resolve("depot-5-day.csv"), "pallet_id,air_temp_c,door_openings\n"
+        + "PL-6,3.5,4\nPL-7,4.0\nPL-8,2.5,3\nPL-9,,2\n");
+    Corpus.Result r = run("treat", dayCsv, out(), "--plan", fitted.resolve("plan.json").toString(), "--set", SCHEMA);
+    assertReconciled(spark, r, out(), 4);
+    assertThat(quarantine(spark, out()).count()).isEqualTo(1);
+    // Drift over the three well-formed lines: one of them lacks air_temp_c.
+    JsonNode air = null;
+    for (JsonNode d : Corpus.json(out().resolve("run.json")).get("drift")) {
+      if (d.get("column").asText().equals("air_temp_c")) {
+        air = d;
+      }
+    }
+    assertThat(air.get("null_rate_now").asDouble()).isCloseTo(1.0 / 3, org.assertj.core.api.Assertions.within(1e-12));
+    assertThat(air.get("null_rate_fit").asDouble()).isZero();
   }
 
   @Test
