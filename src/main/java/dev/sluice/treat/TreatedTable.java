@@ -181,6 +181,9 @@ public final class TreatedTable {
         clashes.add(added);
       }
     }
+    if (Treatments.groups(plan).isPresent() && existing.contains(Treatments.GROUP_INDEX)) {
+      clashes.add(Treatments.GROUP_INDEX);
+    }
     if (!clashes.isEmpty()) {
       throw SluiceException.usage("The table already has column(s) " + String.join(", ", clashes)
           + " that the treatment would add; rename them or turn off the flag that adds them");

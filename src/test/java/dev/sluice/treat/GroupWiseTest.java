@@ -223,6 +223,8 @@ class GroupWiseTest {
     assertThatThrownBy(() -> fit(data, "defaults.scaling=standard"))
         .isInstanceOf(SluiceException.class)
         .hasMessageContaining("with sluice.groups.by set, dwell hours would get group-wise limits or fill values");
+    assertThatThrownBy(() -> fit(data.withColumn(Treatments.GROUP_INDEX, functions.lit(1))))
+        .isInstanceOf(SluiceException.class).hasMessageContaining("already has column(s) _sluice_group_index");
     assertThatThrownBy(() -> fit(data, "groups.by=[site]"))
         .isInstanceOf(SluiceException.class)
         .hasMessageStartingWith("sluice.groups.by names site, which the table lacks");
