@@ -21,10 +21,18 @@ public record GroupFigures(List<String> by, String quantileMethod, double rankEr
    * @param usable the column's usable values in the group
    * @param lower the group's lower limit (null: the table-wide one, or none on that side)
    * @param upper the group's upper limit (null: the table-wide one, or none on that side)
-   * @param fill the group's fill value (null: the table-wide one)
+   * @param fill the group's fill value of a numeric column (null: the table-wide one)
+   * @param fillText the group's fill value of a categorical column, its mode (null: the table-wide one)
    * @param fallback why the group takes the table-wide figures (null: it has its own)
    */
-  public record Group(List<String> key, long usable, Double lower, Double upper, Double fill, String fallback) {}
+  public record Group(List<String> key, long usable, Double lower, Double upper, Double fill, String fillText,
+      String fallback) {
+
+    /** A group of a numeric column: limits and fill, no text fill. */
+    public Group(List<String> key, long usable, Double lower, Double upper, Double fill, String fallback) {
+      this(key, usable, lower, upper, fill, null, fallback);
+    }
+  }
 
   /** Groups with figures of their own. */
   public long own() {

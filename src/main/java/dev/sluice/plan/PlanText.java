@@ -85,6 +85,9 @@ public final class PlanText {
       if (g.fill() != null) {
         parts.add("fill " + num(g.fill()));
       }
+      if (g.fillText() != null) {
+        parts.add("fill " + g.fillText());
+      }
       b.append(parts.isEmpty() ? "table-wide figures" : String.join(", ", parts)).append(" (").append(g.usable())
           .append(" usable values)");
     }

@@ -65,15 +65,22 @@ public final class GroupPass {
   public static List<ColumnPlan> fit(Dataset<Row> data, List<ColumnPlan> columns, Settings settings, long rows) {
     List<String> by = settings.groups().by();
     List<ColumnPlan> grouped = columns.stream().filter(GroupPass::grouped).toList();
-    if (by.isEmpty() || grouped.isEmpty()) {
+    List<ColumnPlan> modes = columns.stream().filter(GroupPass::groupedMode).toList();
+    if (by.isEmpty() || grouped.isEmpty() && modes.isEmpty()) {
       return columns;
     }
     int maxGroups = settings.groups().maxGroups();
+    Map<String, List<GroupFigures.Group>> figures = new HashMap<>();
+    if (!modes.isEmpty()) {
+      figures.putAll(modes(data, by, modes, settings.groups().minValues(), maxGroups));
+    }
+    if (grouped.isEmpty()) {
+      return withFigures(columns, figures, by);
+    }
     List<Column> valid = grouped.stream().map(cp -> Treatments.valid(cp.name(), cp.validMin(), cp.validMax())).toList();
     int maxHeld = settings.quantiles().maxHeldValues();
     Map<List<String>, Stats[]> first = search(data, by, valid, QUARTILES, maxGroups, MARGIN,
         sketchSize(rows, valid.size() * QUARTILES.length, maxHeld));
-    Map<String, List<GroupFigures.Group>> figures = new HashMap<>();
     List<ColumnPlan> second = new ArrayList<>();
     for (int j = 0; j < grouped.size(); j++) {
       ColumnPlan cp = grouped.get(j);
@@ -100,10 +107,49 @@ public final class GroupPass {
     if (!second.isEmpty()) {
       fillsAfterOutliers(data, by, second, figures, maxGroups, sketchSize(rows, second.size(), maxHeld));
     }
+    return withFigures(columns, figures, by);
+  }
+
+  private static List<ColumnPlan> withFigures(List<ColumnPlan> columns, Map<String, List<GroupFigures.Group>> figures,
+      List<String> by) {
     List<ColumnPlan> out = new ArrayList<>();
     for (ColumnPlan cp : columns) {
       List<GroupFigures.Group> groups = figures.get(cp.name());
       out.add(groups == null ? cp : cp.withGroups(new GroupFigures(by, METHOD, 0.0, groups)));
+    }
+    return out;
+  }
+
+  /** Whether a categorical column is filled group by group: kept and filled with its mode. */
+  public static boolean groupedMode(ColumnPlan cp) {
+    return cp.treated() && cp.kept() && !cp.kind().equals("numeric") && cp.missing().strategy().equals("mode")
+        && cp.missing().fillText() != null;
+  }
+
+  /**
+   * Each group's most frequent value of each categorical column, ties to the lowest (Spark's
+   * deterministic {@code mode}, one grouped aggregate). The table-wide mode exists only for a
+   * column with few enough distinct values, so each group's counts stay small too.
+   */
+  private static Map<String, List<GroupFigures.Group>> modes(Dataset<Row> data, List<String> by, List<ColumnPlan> cols,
+      int minValues, int maxGroups) {
+    List<Column> aggs = new ArrayList<>();
+    for (ColumnPlan cp : cols) {
+      aggs.add(count(Names.col(cp.name())));
+      aggs.add(functions.call_function("mode", Names.col(cp.name()), lit(true)).cast("string"));
+    }
+    Map<String, List<GroupFigures.Group>> out = new HashMap<>();
+    for (Row r : grouped(data, by, aggs, maxGroups)) {
+      List<String> key = key(r, by.size());
+      for (int j = 0; j < cols.size(); j++) {
+        int at = by.size() + 2 * j;
+        long n = r.getLong(at);
+        GroupFigures.Group g = n < minValues
+            ? new GroupFigures.Group(key, n, null, null, null, null, n + " values, fewer than groups.min-values = "
+                + minValues + ": the table-wide figures apply")
+            : new GroupFigures.Group(key, n, null, null, null, r.isNullAt(at + 1) ? null : r.getString(at + 1), null);
+        out.computeIfAbsent(cols.get(j).name(), c -> new ArrayList<>()).add(g);
+      }
     }
     return out;
   }

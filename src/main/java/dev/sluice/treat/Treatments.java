@@ -160,13 +160,26 @@ public final class Treatments {
     return u;
   }
 
-  /** Step 4 for a treated categorical column: fill with the plan's text value. */
+  /**
+   * Step 4 for a treated categorical column: fill with the plan's text value, or, with groups,
+   * each group's own (the plan's for a group without one).
+   */
   public static Column categorical(ColumnPlan cp, String sparkType) {
     Column c = Names.col(cp.name());
-    if (cp.missing().fillText() == null) {
+    String tableWide = cp.missing().fillText();
+    if (tableWide == null) {
       return c;
     }
-    return coalesce(c, lit(cp.missing().fillText()).cast(sparkType));
+    Column fill = lit(tableWide);
+    if (cp.groups() != null && cp.groups().groups().stream().anyMatch(g -> g.fillText() != null)) {
+      List<Column> values = new ArrayList<>();
+      values.add(lit(tableWide));
+      for (GroupFigures.Group g : cp.groups().groups()) {
+        values.add(lit(g.fillText() == null ? tableWide : g.fillText()));
+      }
+      fill = functions.element_at(functions.array(values.toArray(new Column[0])), functions.col(GROUP_INDEX).plus(1));
+    }
+    return coalesce(c, fill.cast(sparkType));
   }
 
   /** Added column of action flag: true where the valid value lies beyond the limits. */

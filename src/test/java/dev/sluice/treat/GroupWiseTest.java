@@ -63,20 +63,37 @@ class GroupWiseTest {
     List<Row> rows = new ArrayList<>();
     int id = 0;
     for (String depot : List.of("D1", "D2", "D3")) {
+      int i = 0;
       for (double v : VALUES.get(depot)) {
-        rows.add(RowFactory.create("p" + id++, depot, v));
+        rows.add(RowFactory.create("p" + id++, depot, v, shift(depot, i++)));
       }
       for (int k = 0; k < 3; k++) {
-        rows.add(RowFactory.create("p" + id++, depot, null));
+        rows.add(RowFactory.create("p" + id++, depot, null, shift(depot, i++)));
       }
     }
     for (String depot : extraDepots) {
-      rows.add(RowFactory.create("p" + id++, depot, 100000.0));
-      rows.add(RowFactory.create("p" + id++, depot, null));
+      rows.add(RowFactory.create("p" + id++, depot, 100000.0, "early"));
+      rows.add(RowFactory.create("p" + id++, depot, null, null));
     }
     StructType schema = new StructType().add("pallet", DataTypes.StringType).add("depot", DataTypes.StringType)
-        .add("dwell hours", DataTypes.DoubleType);
+        .add("dwell hours", DataTypes.DoubleType).add("shift", DataTypes.StringType);
     return spark.createDataFrame(rows, schema);
+  }
+
+  /**
+   * The shift of a check: every tenth missing; otherwise D1 mostly early, D2 mostly late (two in
+   * three), D3 evenly.
+   */
+  private static String shift(String depot, int i) {
+    if (i % 10 == 0) {
+      return null;
+    }
+    boolean usual = i % 3 != 0;
+    return switch (depot) {
+      case "D1" -> usual ? "early" : "late";
+      case "D2" -> usual ? "late" : "early";
+      default -> i % 2 == 0 ? "early" : "late";
+    };
   }
 
   private static Plan fit(Dataset<Row> data, String... sets) {
@@ -131,6 +148,29 @@ class GroupWiseTest {
     assertThat(treated.get("D1").stream().filter(x -> x.equals(group(dwell, "D1").fill())).count()).isGreaterThanOrEqualTo(3);
     // D3 takes the table-wide fill value.
     assertThat(treated.get("D3").stream().filter(x -> x.equals(dwell.missing().fillNumber())).count()).isEqualTo(3);
+  }
+
+  @Test
+  void aCategoricalColumnIsFilledWithItsGroupsOwnMode(SparkSession spark) {
+    Dataset<Row> data = table(spark);
+    Plan plan = fit(data);
+    ColumnPlan shift = plan.column("shift").orElseThrow();
+    // Counted by hand from the fixture: table-wide, early is the more frequent shift.
+    assertThat(shift.missing().fillText()).isEqualTo("early");
+    assertThat(group(shift, "D1").fillText()).isEqualTo("early");
+    assertThat(group(shift, "D2").fillText()).isEqualTo("late");
+    assertThat(group(shift, "D3").fallback()).startsWith("11 values, fewer than groups.min-values = 50");
+    Map<String, List<String>> filled = new HashMap<>();
+    Dataset<Row> treated = Sluice.treat(data, plan);
+    Dataset<Row> wasNull = data.filter(functions.col("shift").isNull()).select("pallet");
+    for (Row r : treated.join(wasNull, "pallet").collectAsList()) {
+      filled.computeIfAbsent(r.<String>getAs("depot"), k -> new ArrayList<>()).add(r.getAs("shift"));
+    }
+    assertThat(filled.get("D1")).containsOnly("early");
+    assertThat(filled.get("D2")).containsOnly("late");
+    assertThat(filled.get("D3")).containsOnly("early");
+    data.createOrReplaceTempView("checks_shift");
+    Fixtures.assertSameRows(spark.sql(PlanSql.select(spark, plan, "checks_shift")), treated);
   }
 
   @Test
