@@ -41,8 +41,11 @@ public record Gates(String onBreach, Double quarantinedShare, SortedMap<String, 
     SortedMap<String, Limits> limits = new TreeMap<>();
     for (ColumnPlan cp : columns) {
       ColumnLimits l = settings.column(cp.name()).limits();
-      if (cp.treated() && cp.kept() && l.any()) {
-        limits.put(cp.name(), new Limits(boxed(l.nullRate()), boxed(l.beyondShare()), boxed(l.psi())));
+      // A column that is not numeric has no outlier limits and no quartile bins: only its null rate is measured.
+      boolean numeric = cp.kind().equals("numeric");
+      Limits own = new Limits(boxed(l.nullRate()), numeric ? boxed(l.beyondShare()) : null, numeric ? boxed(l.psi()) : null);
+      if (cp.treated() && cp.kept() && (own.nullRate() != null || own.beyondShare() != null || own.psi() != null)) {
+        limits.put(cp.name(), own);
       }
     }
     GateSettings g = settings.gates();

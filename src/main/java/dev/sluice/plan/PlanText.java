@@ -67,10 +67,12 @@ public final class PlanText {
   private static String groups(ColumnPlan cp) {
     GroupFigures f = cp.groups();
     StringBuilder b = new StringBuilder();
-    b.append(f.own()).append(" of ").append(f.groups().size()).append(" groups with figures of their own")
-        .append(" (quartiles ").append(f.quantileMethod())
-        .append(f.rankError() > 0 ? ", rank error at most " + num(f.rankError()) : "")
-        .append("); groups not listed take the table-wide figures");
+    b.append(f.own()).append(" of ").append(f.groups().size()).append(" groups with figures of their own");
+    if (cp.kind().equals("numeric")) {
+      b.append(" (quartiles ").append(f.quantileMethod())
+          .append(f.rankError() > 0 ? ", rank error at most " + num(f.rankError()) : "").append(")");
+    }
+    b.append("; groups not listed take the table-wide figures");
     for (GroupFigures.Group g : f.groups()) {
       b.append("\n    ").append(g.key().stream().map(k -> k == null ? "null" : k).collect(java.util.stream.Collectors.joining(", ")))
           .append(": ");
@@ -86,7 +88,7 @@ public final class PlanText {
         parts.add("fill " + num(g.fill()));
       }
       if (g.fillText() != null) {
-        parts.add("fill " + g.fillText());
+        parts.add("fill \"" + g.fillText() + "\"");
       }
       b.append(parts.isEmpty() ? "table-wide figures" : String.join(", ", parts)).append(" (").append(g.usable())
           .append(" usable values)");

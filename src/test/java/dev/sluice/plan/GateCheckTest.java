@@ -66,6 +66,12 @@ class GateCheckTest {
     assertThat(g.columns().get("b")).isEqualTo(new Gates.Limits(0.1, null, 0.25));
     assertThat(Gates.of(SettingsLoader.load(Optional.empty(), List.of()), List.of(column("a", true, true))))
         .isEqualTo(Gates.NONE);
+    // A text column has no outlier limits or quartile bins: only its null-rate limit is kept.
+    ColumnPlan text = new ColumnPlan("class", "string", "categorical", "treat", true, null, null, "none", null, null,
+        null, null, null);
+    Settings all = SettingsLoader.load(Optional.empty(), List.of("defaults.limits.null-rate=0.1",
+        "defaults.limits.psi=0.25", "defaults.limits.beyond-share=0.01"));
+    assertThat(Gates.of(all, List.of(text)).columns().get("class")).isEqualTo(new Gates.Limits(0.1, null, null));
   }
 
   @Test
