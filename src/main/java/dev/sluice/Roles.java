@@ -45,8 +45,7 @@ final class Roles {
     List<String> lacking = settings.groups().by().stream().filter(b -> !names.contains(b)).toList();
     if (!lacking.isEmpty()) {
       throw SluiceException.usage("sluice.groups.by names " + String.join(", ", lacking)
-          + ", which the table lacks; its columns are: " + String.join(", ", names.subList(0, Math.min(20, names.size())))
-          + (names.size() > 20 ? " and " + (names.size() - 20) + " more" : ""));
+          + ", which the table lacks; its columns are: " + dev.sluice.config.SettingsLoader.listed(names));
     }
     List<String> scaled = new ArrayList<>();
     for (StructField f : schema.fields()) {

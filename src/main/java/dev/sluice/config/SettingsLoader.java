@@ -110,7 +110,7 @@ public final class SettingsLoader {
   }
 
   /** The table's columns in their order, cut after {@link #LISTED_COLUMNS} with a count. */
-  private static String listed(Collection<String> tableColumns) {
+  public static String listed(Collection<String> tableColumns) {
     String shown =
         tableColumns.stream()
             .limit(LISTED_COLUMNS)

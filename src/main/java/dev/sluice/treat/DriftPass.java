@@ -81,15 +81,11 @@ public final class DriftPass {
         aggs.add(sum(when(Treatments.beyond(v, cp.withGroups(null)), 1L).otherwise(0L)));
       }
     }
-    // Rows outside every group of the plan: the same test as the CASE WHEN of the treatment.
-    java.util.Optional<dev.sluice.plan.GroupFigures> grouped = plan.columns().stream()
-        .filter(cp -> cp.groups() != null).map(ColumnPlan::groups).findFirst();
+    // Rows outside every group of the plan: group index 0, the same test as the treatment's.
+    java.util.Optional<dev.sluice.plan.GroupFigures> grouped = Treatments.groups(plan);
     int groupsAt = aggs.size() + 1;
     if (grouped.isPresent()) {
-      Column seen = lit(false);
-      for (dev.sluice.plan.GroupFigures.Group g : grouped.get().groups()) {
-        seen = seen.or(GroupPass.inGroup(grouped.get().by(), g.key()));
-      }
+      Column seen = Treatments.groupIndex(grouped.get()).notEqual(0);
       Column key = functions.struct(grouped.get().by().stream().map(Names::col).toArray(Column[]::new));
       aggs.add(sum(when(functions.not(seen), 1L).otherwise(0L)));
       aggs.add(functions.approx_count_distinct(when(functions.not(seen), key)));

@@ -164,7 +164,7 @@ public final class GroupPass {
   private static void fillsAfterOutliers(Dataset<Row> data, List<String> by, List<ColumnPlan> cols,
       Map<String, List<GroupFigures.Group>> figures, int maxGroups, int k) {
     GroupFigures any = new GroupFigures(by, METHOD, 0, figures.get(cols.get(0).name()));
-    Dataset<Row> indexed = data.withColumn(Treatments.GROUP_INDEX, Treatments.groupIndex(any));
+    Dataset<Row> indexed = Treatments.withGroupIndex(data, any);
     List<Column> after = cols.stream()
         .map(cp -> Treatments.afterOutliers(cp.withGroups(new GroupFigures(by, METHOD, 0, figures.get(cp.name())))))
         .toList();

@@ -97,7 +97,13 @@ public final class Treatments {
   /** {@code data} with the working column {@link #GROUP_INDEX} when the plan has groups. */
   public static org.apache.spark.sql.Dataset<org.apache.spark.sql.Row> withGroupIndex(
       org.apache.spark.sql.Dataset<org.apache.spark.sql.Row> data, dev.sluice.plan.Plan plan) {
-    return groups(plan).map(g -> data.withColumn(GROUP_INDEX, groupIndex(g))).orElse(data);
+    return groups(plan).map(g -> withGroupIndex(data, g)).orElse(data);
+  }
+
+  /** {@code data} with the working column {@link #GROUP_INDEX} of these groups. */
+  static org.apache.spark.sql.Dataset<org.apache.spark.sql.Row> withGroupIndex(
+      org.apache.spark.sql.Dataset<org.apache.spark.sql.Row> data, GroupFigures groups) {
+    return data.withColumn(GROUP_INDEX, groupIndex(groups));
   }
 
   /** 1 for the first group of the figures, 2 for the second, ...; 0 for a row of no listed group. */
