@@ -77,10 +77,13 @@ public final class Sluice {
     seconds.put("treated-statistics", elapsed(t1));
     Plan plan = Planner.finish(profile, settings, outliers, stats);
     if (settings.groups().any()) {
+      Map<String, String> searched = GroupPass.searchedAfterPlan(plan.columns(), profile.groups());
       progress.accept("group-wise limits and fill values by " + String.join(", ", settings.groups().by())
-          + " (one grouped aggregate, two when a fill value needs the values after the group's outlier step)");
+          + (searched.isEmpty() ? ": group quartiles from pass 1"
+              : ": searching the group quartiles of " + String.join(", ", searched.keySet()) + " ("
+                  + String.join("; ", new java.util.LinkedHashSet<>(searched.values())) + ")"));
       long t2 = System.nanoTime();
-      plan = plan.withColumns(GroupPass.fit(data, plan.columns(), settings, profile.rows()));
+      plan = plan.withColumns(GroupPass.fit(data, plan.columns(), settings, profile.rows(), profile.groups()));
       seconds.put("groups", elapsed(t2));
     }
     TreatedTable.checkNoCollisions(data.schema(), plan);

@@ -50,6 +50,8 @@ final class ProfileAccumulator implements RowScan.Accumulator<ProfileAccumulator
   /** Pass 1's share of pass 2, or null when it is not attempted. */
   final EarlyTreatment early;
   final OrderWindows[] windows;
+  /** Per group of groups.by, the figures of the group-wise columns; null without groups. */
+  final GroupTally groups;
   final DistinctCount[] distinct;
   final HashedCounts<UTF8String>[] values;
   final long[] earliest;
@@ -76,7 +78,7 @@ final class ProfileAccumulator implements RowScan.Accumulator<ProfileAccumulator
    */
   @SuppressWarnings("unchecked")
   ProfileAccumulator(ProfileLayout layout, NumericSteps[] validity, OrderWindows[] windows,
-      int[] sampled, int sampleRows, long sampleCut, EarlyTreatment early) {
+      int[] sampled, int sampleRows, long sampleCut, EarlyTreatment early, GroupTally groups) {
     int n = layout.names.length;
     this.layout = layout;
     this.validity = validity;
@@ -121,6 +123,7 @@ final class ProfileAccumulator implements RowScan.Accumulator<ProfileAccumulator
     }
     this.sample = sampled.length >= 2 && sampleRows > 0 ? new RowSample(sampleRows, sampled.length) : null;
     this.early = early == null ? null : early.emptyCopy();
+    this.groups = groups == null ? null : groups.emptyCopy();
     int[] measuredIndex = new int[n];
     java.util.Arrays.fill(measuredIndex, -1);
     for (int j = 0; j < layout.measured; j++) {
@@ -164,7 +167,7 @@ final class ProfileAccumulator implements RowScan.Accumulator<ProfileAccumulator
 
   /** An empty accumulator over the same layout and windows, for one partition. */
   ProfileAccumulator emptyCopy() {
-    return new ProfileAccumulator(layout, validity, windows, sampled, sampleRows, sampleCut, early);
+    return new ProfileAccumulator(layout, validity, windows, sampled, sampleRows, sampleCut, early, groups);
   }
 
   @Override
@@ -204,6 +207,9 @@ final class ProfileAccumulator implements RowScan.Accumulator<ProfileAccumulator
       mask |= row.isNullAt(at) ? 1L << s : 0L;
     }
     countTogether(mask);
+    if (groups != null) {
+      groups.add(row);
+    }
     if (sample != null || early != null) {
       for (int s = 0; s < sampled.length; s++) {
         int j = sampled[s];
@@ -218,6 +224,9 @@ final class ProfileAccumulator implements RowScan.Accumulator<ProfileAccumulator
    * {@link #add} gives for the same rows, with the casts and hashes done here (see {@link Batches}).
    */
   void addBatch(ColumnarBatch batch) {
+    if (groups != null) {
+      throw new IllegalStateException("The group tally reads rows, not columnar batches");
+    }
     int n = batch.numRows();
     rows += n;
     if (batchValues == null || batchValues[0].length < n) {
@@ -403,6 +412,9 @@ final class ProfileAccumulator implements RowScan.Accumulator<ProfileAccumulator
     }
     if (early != null) {
       early.merge(o.early);
+    }
+    if (groups != null) {
+      groups.merge(o.groups);
     }
     together.merge(o.together);
     return this;

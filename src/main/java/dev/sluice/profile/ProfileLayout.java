@@ -52,11 +52,19 @@ final class ProfileLayout implements Serializable {
   final int[] rawAt;
   /** Table position of measured column j. */
   final int[] measuredAt;
+  /**
+   * Projection positions of the group key (groups.by): its 64-bit hash, a LONG right after the
+   * measured columns in {@link #pilotProjection}, and at {@code keyAt} in the full projection; its
+   * text, an array of the key columns as STRING; -1 when there are no groups.
+   */
+  final int keyAt;
+  final int keyTextAt;
+  private final transient Column keyHash;
   private final transient List<Column> raw;
   private final transient List<Column> projection;
 
   private ProfileLayout(String[] names, String[] types, ColumnKind[] kinds, Role[] roles, Read[] reads, int[] at,
-      int[] hashAt, int measured, List<Column> projection) {
+      int[] hashAt, int measured, List<Column> projection, Column keyHash) {
     this.names = names;
     this.types = types;
     this.kinds = kinds;
@@ -76,6 +84,9 @@ final class ProfileLayout implements Serializable {
     }
     this.categorical = cat.stream().mapToInt(Integer::intValue).toArray();
     this.rest = others.stream().mapToInt(Integer::intValue).toArray();
+    this.keyHash = keyHash;
+    this.keyAt = keyHash == null ? -1 : projection.size() - 2;
+    this.keyTextAt = keyHash == null ? -1 : projection.size() - 1;
     this.projection = projection;
     this.rawTypes = new DataType[names.length];
     this.rawAt = new int[names.length];
@@ -112,6 +123,16 @@ final class ProfileLayout implements Serializable {
   }
 
   static ProfileLayout of(StructType schema, Map<String, Role> roles) {
+    return of(schema, roles, List.of());
+  }
+
+  /**
+   * As {@link #of(StructType, Map)}, with the group key of the columns {@code groupBy} (none: no
+   * key) at the end of the projection. A group is told by its key columns as STRING, a null
+   * apart from every text; the hash covers each column's null flag as well as its text, so that
+   * keys differing only in which column is null hash apart.
+   */
+  static ProfileLayout of(StructType schema, Map<String, Role> roles, List<String> groupBy) {
     StructField[] fields = schema.fields();
     int n = fields.length;
     String[] names = new String[n];
@@ -162,8 +183,22 @@ final class ProfileLayout implements Serializable {
           break;
       }
     }
+    Column keyHash = null;
+    if (!groupBy.isEmpty()) {
+      List<Column> hashed = new ArrayList<>();
+      List<Column> texts = new ArrayList<>();
+      for (String g : groupBy) {
+        Column text = Names.col(g).cast("string");
+        hashed.add(text.isNull());
+        hashed.add(text);
+        texts.add(text);
+      }
+      keyHash = xxhash64(hashed.toArray(new Column[0]));
+      projection.add(keyHash);
+      projection.add(org.apache.spark.sql.functions.array(texts.toArray(new Column[0])));
+    }
     ProfileLayout layout = new ProfileLayout(names, types, kinds, rs, reads, at, hashAt, measured,
-        List.copyOf(projection));
+        List.copyOf(projection), keyHash);
     for (int i = 0; i < n; i++) {
       layout.rawTypes[i] = fields[i].dataType();
     }
@@ -196,6 +231,19 @@ final class ProfileLayout implements Serializable {
   /** The leading part of the projection: the measured columns as DOUBLE. */
   List<Column> measuredProjection() {
     return projection.subList(0, measured);
+  }
+
+  /**
+   * The measured columns, then the group key's hash when there are groups (at position
+   * {@link #measured}): what the pilot and the search passes read.
+   */
+  List<Column> pilotProjection() {
+    if (keyHash == null) {
+      return measuredProjection();
+    }
+    List<Column> out = new ArrayList<>(measuredProjection());
+    out.add(keyHash);
+    return out;
   }
 
   /** Table positions of the measured columns, in projection order. */

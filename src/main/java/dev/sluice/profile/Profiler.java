@@ -58,17 +58,24 @@ public final class Profiler {
       boolean columnar) {
     long rows = data.count();
     ProfileLayout layout = ProfileLayout.of(data.schema(), roles);
+    List<String> grouped = groupCandidates(layout, settings);
+    if (!grouped.isEmpty()) {
+      layout = ProfileLayout.of(data.schema(), roles, settings.groups().by());
+    }
     int[] measured = layout.measuredColumns();
-    JavaRDD<InternalRow> numeric = RowScan.rows(data, layout.measuredProjection());
+    JavaRDD<InternalRow> numeric = RowScan.rows(data, layout.pilotProjection());
     int perWindow = settings.quantiles().heldPerWindow(QUARTILES.length * measured.length);
-    double[][] pilot = rows > perWindow && measured.length > 0
-        ? RowScan.pilot(numeric, measured.length, pilotRows(settings, measured.length), PILOT_PARTITIONS)
-        : new double[measured.length][0];
+    RowScan.Pilot taken = rows > perWindow && measured.length > 0
+        ? RowScan.pilot(numeric, measured.length, layout.keyAt >= 0 ? measured.length : -1,
+            pilotRows(settings, measured.length), PILOT_PARTITIONS)
+        : new RowScan.Pilot(new double[measured.length][0], new long[0]);
+    double[][] pilot = taken.values();
     NumericSteps[] validity = new NumericSteps[measured.length];
     for (int j = 0; j < measured.length; j++) {
       ColumnSettings cs = settings.column(layout.names[measured[j]]);
       validity[j] = NumericSteps.validity(boxed(cs.validMin()), boxed(cs.validMax()));
     }
+    GroupTally tally = grouped.isEmpty() ? null : groupTally(layout, measured, validity, grouped, taken, rows, settings);
     int[] sampled = sampledColumns(layout, measured, settings);
     double[][] usable = new double[measured.length][];
     // Columns sorted side by side on the driver's cores, while the executors wait for pass 1.
@@ -82,8 +89,9 @@ public final class Profiler {
     int sampleRows = Math.min(settings.collinearity().spearmanRows(),
         Math.max(1_000, VALUE_BUDGET / Math.max(1, sampled.length)));
     ProfileAccumulator proto = new ProfileAccumulator(layout, validity, first, sampled, sampleRows,
-        ProfileAccumulator.sampleCut(sampleRows, rows), early == null ? null : early.treatment);
-    Optional<JavaRDD<ColumnarBatch>> batches = columnar && layout.columnar()
+        ProfileAccumulator.sampleCut(sampleRows, rows), early == null ? null : early.treatment, tally);
+    // The group tally reads each row's group key from Spark's rows.
+    Optional<JavaRDD<ColumnarBatch>> batches = columnar && tally == null && layout.columnar()
         ? Batches.of(data.select(layout.raw().toArray(new Column[0]))) : Optional.empty();
     JavaRDD<ProfileAccumulator> parts = batches.isPresent()
         ? RowScan.batchParts(batches.get(), proto::emptyCopy, ProfileAccumulator::addBatch)
@@ -114,8 +122,54 @@ public final class Profiler {
         acc.early == null ? null : acc.early.comoments,
         acc.early == null ? null : acc.early.actions(), acc.early == null ? null : acc.early.bands(),
         kept.isEmpty() ? null : kept.get(0), acc.early != null && acc.early.overflowed);
+    GroupMeasures groups = grouped.isEmpty() ? null
+        : tally == null ? GroupMeasures.none(settings.groups().by(), grouped,
+            "the pilot showed more groups, or wider windows, than pass 1 holds")
+        : acc.groups.finish(settings.groups().by(), grouped.toArray(new String[0]), settings.groups().minValues());
     return new TableProfile(acc.rows, columns(data.sparkSession(), layout, acc, quartiles, mad),
-        sampleNames, acc.sample, pilotByName, quartiles, share, acc.trackedNames(), acc.together);
+        sampleNames, acc.sample, pilotByName, quartiles, share, acc.trackedNames(), acc.together, groups);
+  }
+
+  /**
+   * The measured columns that may get group-wise figures, in table order (none without
+   * groups.by): treated, with IQR or z-score limits or a median or mean fill. The plan may still
+   * leave some untreated; measuring them costs pass 1 a little, never a pass.
+   */
+  static List<String> groupCandidates(ProfileLayout layout, Settings settings) {
+    List<String> out = new ArrayList<>();
+    if (!settings.groups().any()) {
+      return out;
+    }
+    for (int i : layout.measuredColumns()) {
+      String name = layout.names[i];
+      Role role = layout.roles[i];
+      ColumnSettings cs = settings.column(name);
+      boolean limits = cs.outliers().method() == OutlierMethod.IQR || cs.outliers().method() == OutlierMethod.ZSCORE;
+      boolean fill = cs.missing().strategy() == dev.sluice.config.ImputeStrategy.MEDIAN
+          || cs.missing().strategy() == dev.sluice.config.ImputeStrategy.MEAN;
+      if ((role == Role.TREAT || role == Role.REQUIRED) && (limits || fill)) {
+        out.add(name);
+      }
+    }
+    return out;
+  }
+
+  /** The group tally of pass 1 over the measured columns among {@code grouped}, or null. */
+  private static GroupTally groupTally(ProfileLayout layout, int[] measured, NumericSteps[] validity,
+      List<String> grouped, RowScan.Pilot pilot, long rows, Settings settings) {
+    List<Integer> cols = new ArrayList<>();
+    List<NumericSteps> steps = new ArrayList<>();
+    for (String name : grouped) {
+      for (int j = 0; j < measured.length; j++) {
+        if (layout.names[measured[j]].equals(name)) {
+          cols.add(j);
+          steps.add(validity[j]);
+        }
+      }
+    }
+    return GroupTally.plan(layout, cols.stream().mapToInt(Integer::intValue).toArray(),
+        steps.toArray(new NumericSteps[0]), pilot, rows, settings.groups().maxGroups(),
+        settings.quantiles().maxHeldValues()).orElse(null);
   }
 
   /** Each measured column's quartile search, and the windows of its first pass. */

@@ -112,13 +112,27 @@ public final class RowScan {
    * projection. Reads only the start of the partitions it samples.
    */
   public static double[][] pilot(JavaRDD<InternalRow> rows, int columns, int wanted, int parts) {
+    return pilot(rows, columns, -1, wanted, parts).values();
+  }
+
+  /**
+   * A pilot's values, one array per column, and per row the LONG at the projection's position
+   * {@code keyAt} (empty when there is none).
+   */
+  public record Pilot(double[][] values, long[] keys) {}
+
+  /**
+   * As {@link #pilot(JavaRDD, int, int, int)}, also reading each row's LONG at {@code keyAt} (a
+   * group key's hash; -1: none).
+   */
+  public static Pilot pilot(JavaRDD<InternalRow> rows, int columns, int keyAt, int wanted, int parts) {
     int total = rows.getNumPartitions();
     double[][] out = new double[columns][];
     if (total == 0 || wanted <= 0) {
       for (int j = 0; j < columns; j++) {
         out[j] = new double[0];
       }
-      return out;
+      return new Pilot(out, new long[0]);
     }
     int k = Math.min(parts, total);
     int[] ids = new int[k];
@@ -126,8 +140,9 @@ public final class RowScan {
       ids[i] = k == 1 ? 0 : (int) Math.round((double) i * (total - 1) / (k - 1));
     }
     int each = (wanted + k - 1) / k;
-    List<double[][]>[] taken = rows.mapPartitions((Iterator<InternalRow> it) -> {
+    List<Object[]>[] taken = rows.mapPartitions((Iterator<InternalRow> it) -> {
       List<double[]> got = new ArrayList<>();
+      List<Long> keys = new ArrayList<>();
       while (got.size() < each && it.hasNext()) {
         InternalRow r = it.next();
         double[] v = new double[columns];
@@ -135,29 +150,39 @@ public final class RowScan {
           v[j] = r.isNullAt(j) ? Double.NaN : r.getDouble(j);
         }
         got.add(v);
+        if (keyAt >= 0) {
+          keys.add(r.getLong(keyAt));
+        }
       }
-      return java.util.Collections.singletonList(got.toArray(new double[0][])).iterator();
+      long[] keyArray = keys.stream().mapToLong(Long::longValue).toArray();
+      return java.util.Collections.singletonList(new Object[] {got.toArray(new double[0][]), keyArray}).iterator();
     }).collectPartitions(ids);
     int n = 0;
-    for (List<double[][]> part : taken) {
-      for (double[][] block : part) {
-        n += block.length;
+    for (List<Object[]> part : taken) {
+      for (Object[] block : part) {
+        n += ((double[][]) block[0]).length;
       }
     }
     for (int j = 0; j < columns; j++) {
       out[j] = new double[n];
     }
+    long[] keys = new long[keyAt >= 0 ? n : 0];
     int i = 0;
-    for (List<double[][]> part : taken) {
-      for (double[][] block : part) {
-        for (double[] v : block) {
+    for (List<Object[]> part : taken) {
+      for (Object[] block : part) {
+        double[][] values = (double[][]) block[0];
+        long[] blockKeys = (long[]) block[1];
+        for (int r = 0; r < values.length; r++) {
           for (int j = 0; j < columns; j++) {
-            out[j][i] = v[j];
+            out[j][i] = values[r][j];
+          }
+          if (keyAt >= 0) {
+            keys[i] = blockKeys[r];
           }
           i++;
         }
       }
     }
-    return out;
+    return new Pilot(out, keys);
   }
 }

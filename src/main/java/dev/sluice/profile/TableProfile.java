@@ -24,6 +24,7 @@ import java.util.Optional;
  *     and categorical columns in table order), bit 0 first
  * @param together rows by the set of those columns that are null in them, as a bit mask (rows
  *     with none left out); overflowed past 10,000 different sets
+ * @param groups what pass 1 measured of each group of groups.by, or null without groups
  */
 public record TableProfile(
     long rows,
@@ -34,7 +35,8 @@ public record TableProfile(
     Map<String, RankSearch> quartiles,
     PassOneShare share,
     List<String> togetherColumns,
-    HashedCounts<Long> together) {
+    HashedCounts<Long> together,
+    GroupMeasures groups) {
 
   /** Most columns whose nulls the missing-together counts track (one bit each in a long). */
   public static final int TOGETHER_COLUMNS = 64;

@@ -36,6 +36,8 @@ public final class RankSearch {
 
   private final double[] probabilities;
   private final int maxHeld;
+  /** Standard errors of a pilot quantile that the first windows cover on each side. */
+  private final double bracketErrors;
   private long count = -1;
   /** The order statistics needed (1-based ranks) and those found so far. */
   private long[] ranks;
@@ -52,6 +54,18 @@ public final class RankSearch {
    * @param maxHeld most values one window of a pass may hold (memory bound), at least 1
    */
   public RankSearch(double[] probabilities, int maxHeld) {
+    this(probabilities, maxHeld, BRACKET_ERRORS);
+  }
+
+  /**
+   * As {@link #RankSearch(double[], int)}, with first windows of {@code bracketErrors} standard
+   * errors either side (fewer: narrower windows that miss more often, costing a pass, never
+   * accuracy).
+   */
+  public RankSearch(double[] probabilities, int maxHeld, double bracketErrors) {
+    if (!(bracketErrors > 0)) {
+      throw new IllegalArgumentException("Cannot bracket " + bracketErrors + " standard errors");
+    }
     for (double p : probabilities) {
       if (!(p >= 0.0 && p <= 1.0)) {
         throw new IllegalArgumentException("Cannot take the quantile at p = " + p + ": p must be in [0, 1]");
@@ -62,6 +76,7 @@ public final class RankSearch {
     }
     this.probabilities = probabilities.clone();
     this.maxHeld = maxHeld;
+    this.bracketErrors = bracketErrors;
   }
 
   /**
@@ -86,7 +101,7 @@ public final class RankSearch {
     int m = sorted.length;
     List<long[]> brackets = new ArrayList<>();
     for (double p : probabilities) {
-      double[] b = bracket(sorted, p, expectedCount, maxHeld);
+      double[] b = bracket(sorted, p, expectedCount, maxHeld, bracketErrors);
       brackets.add(new long[] {OrderWindows.key(b[0]), OrderWindows.key(b[1])});
     }
     for (double[] r : alsoCover) {
@@ -121,9 +136,14 @@ public final class RankSearch {
    * bracket runs past the pilot's ends.
    */
   public static double[] bracket(double[] sorted, double p, long expectedCount, int maxHeld) {
+    return bracket(sorted, p, expectedCount, maxHeld, BRACKET_ERRORS);
+  }
+
+  /** As {@link #bracket(double[], double, long, int)}, {@code errors} standard errors either side. */
+  public static double[] bracket(double[] sorted, double p, long expectedCount, int maxHeld, double errors) {
     int m = sorted.length;
     double affordable = HELD_SHARE * maxHeld / (2.0 * Math.max(1, expectedCount));
-    double d = Math.max(BRACKET_ERRORS * Math.sqrt(p * (1 - p) / m) + 2.0 / m, affordable);
+    double d = Math.max(errors * Math.sqrt(p * (1 - p) / m) + 2.0 / m, affordable);
     double low = p - d <= 0 ? Double.NEGATIVE_INFINITY : sorted[(int) Math.floor((p - d) * m)];
     int top = (int) Math.ceil((p + d) * m);
     double high = top >= m ? Double.POSITIVE_INFINITY : sorted[top];

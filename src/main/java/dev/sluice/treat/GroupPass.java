@@ -13,6 +13,7 @@ import dev.sluice.io.Names;
 import dev.sluice.plan.ColumnPlan;
 import dev.sluice.plan.GroupFigures;
 import dev.sluice.plan.GroupPlanner;
+import dev.sluice.profile.GroupMeasures;
 import dev.sluice.stats.Quantiles;
 import java.util.ArrayList;
 import java.util.Arrays;
@@ -63,6 +64,15 @@ public final class GroupPass {
 
   /** The plan's columns with their group-wise figures; unchanged when groups.by is empty. */
   public static List<ColumnPlan> fit(Dataset<Row> data, List<ColumnPlan> columns, Settings settings, long rows) {
+    return fit(data, columns, settings, rows, null);
+  }
+
+  /**
+   * As {@link #fit(Dataset, List, Settings, long)}, taking each column's group figures from
+   * {@code passOne} (what pass 1 measured; null: nothing) where it has them and searching the rest.
+   */
+  public static List<ColumnPlan> fit(Dataset<Row> data, List<ColumnPlan> columns, Settings settings, long rows,
+      GroupMeasures passOne) {
     List<String> by = settings.groups().by();
     List<ColumnPlan> grouped = columns.stream().filter(GroupPass::grouped).toList();
     List<ColumnPlan> modes = columns.stream().filter(GroupPass::groupedMode).toList();
@@ -77,17 +87,37 @@ public final class GroupPass {
     if (grouped.isEmpty()) {
       return withFigures(columns, figures, by);
     }
-    List<Column> valid = grouped.stream().map(cp -> Treatments.valid(cp.name(), cp.validMin(), cp.validMax())).toList();
+    Map<String, Map<List<String>, Stats>> measured = new HashMap<>();
+    List<ColumnPlan> searched = new ArrayList<>();
+    for (ColumnPlan cp : grouped) {
+      Map<List<String>, GroupMeasures.Measure> settled = passOne == null ? null : passOne.columns().get(cp.name());
+      if (settled == null) {
+        searched.add(cp);
+        continue;
+      }
+      Map<List<String>, Stats> stats = new LinkedHashMap<>();
+      settled.forEach((key, m) -> stats.put(key, new Stats(m.usable(), m.mean(), m.stddev(), m.quartiles())));
+      measured.put(cp.name(), stats);
+    }
     int maxHeld = settings.quantiles().maxHeldValues();
-    Map<List<String>, Stats[]> first = search(data, by, valid, QUARTILES, maxGroups, MARGIN,
-        sketchSize(rows, valid.size() * QUARTILES.length, maxHeld));
+    if (!searched.isEmpty()) {
+      List<Column> valid = searched.stream().map(cp -> Treatments.valid(cp.name(), cp.validMin(), cp.validMax())).toList();
+      Map<List<String>, Stats[]> found = search(data, by, valid, QUARTILES, maxGroups, MARGIN,
+          sketchSize(rows, valid.size() * QUARTILES.length, maxHeld));
+      for (int j = 0; j < searched.size(); j++) {
+        Map<List<String>, Stats> stats = new LinkedHashMap<>();
+        for (Map.Entry<List<String>, Stats[]> e : found.entrySet()) {
+          stats.put(e.getKey(), e.getValue()[j]);
+        }
+        measured.put(searched.get(j).name(), stats);
+      }
+    }
     List<ColumnPlan> second = new ArrayList<>();
-    for (int j = 0; j < grouped.size(); j++) {
-      ColumnPlan cp = grouped.get(j);
+    for (ColumnPlan cp : grouped) {
       List<GroupFigures.Group> groups = new ArrayList<>();
       boolean needsSecond = false;
-      for (Map.Entry<List<String>, Stats[]> e : first.entrySet()) {
-        Stats s = e.getValue()[j];
+      for (Map.Entry<List<String>, Stats> e : measured.get(cp.name()).entrySet()) {
+        Stats s = e.getValue();
         GroupPlanner.Measured m = new GroupPlanner.Measured(e.getKey(), s.usable(), s.quantiles()[0],
             s.quantiles()[1], s.quantiles()[2], s.mean(), s.stddev());
         GroupFigures.Group g = GroupPlanner.limits(cp, settings.column(cp.name()).outliers(), m,
@@ -108,6 +138,18 @@ public final class GroupPass {
       fillsAfterOutliers(data, by, second, figures, maxGroups, sketchSize(rows, second.size(), maxHeld));
     }
     return withFigures(columns, figures, by);
+  }
+
+  /** The names of the plan's group-wise columns that {@code passOne} left to the search, with the reasons. */
+  public static Map<String, String> searchedAfterPlan(List<ColumnPlan> columns, GroupMeasures passOne) {
+    Map<String, String> out = new LinkedHashMap<>();
+    for (ColumnPlan cp : columns) {
+      if (grouped(cp) && (passOne == null || !passOne.columns().containsKey(cp.name()))) {
+        out.put(cp.name(), passOne == null || !passOne.unsettled().containsKey(cp.name())
+            ? "not measured in pass 1" : passOne.unsettled().get(cp.name()));
+      }
+    }
+    return out;
   }
 
   private static List<ColumnPlan> withFigures(List<ColumnPlan> columns, Map<String, List<GroupFigures.Group>> figures,

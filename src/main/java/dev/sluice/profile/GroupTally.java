@@ -1,0 +1,315 @@
+package dev.sluice.profile;
+
+import dev.sluice.stats.NumericSteps;
+import dev.sluice.stats.OrderWindows;
+import dev.sluice.stats.RankSearch;
+import dev.sluice.stats.ScaledMoments;
+import java.io.Serializable;
+import java.util.ArrayList;
+import java.util.Arrays;
+import java.util.HashMap;
+import java.util.LinkedHashMap;
+import java.util.List;
+import java.util.Map;
+import org.apache.spark.sql.catalyst.InternalRow;
+import org.apache.spark.sql.catalyst.util.ArrayData;
+
+/**
+ * Pass 1's group-wise share: per group of groups.by, the count, moments and quartile windows of
+ * the usable values of each candidate column, so that group-wise limits and fill values need no
+ * pass of their own.
+ *
+ * <p>A group is known in the pass by its key's 64-bit hash (as {@code stats.HashedCounts} knows
+ * a text value; two keys with the same hash would be taken as one, odds of about 3e-14 for 1,000
+ * groups). The pilot places the quartile windows of each group it saw ({@link #plan}); a group it
+ * did not see is counted without windows, which is enough when it has fewer values than
+ * groups.min-values (it takes the table-wide figures anyway). The windows find exact type 7
+ * quartiles as the table-wide ones do ({@link RankSearch}); a column with a group left unsettled
+ * is searched after the plan instead.
+ *
+ * <p>Memory: one slot per group, at most groups.max-groups (past that the tally stops and every
+ * column is searched later, which reports the limit); the windows' held values are bounded by
+ * {@link #plan}'s budget.
+ */
+final class GroupTally implements Serializable {
+  private static final long serialVersionUID = 1L;
+  /** The quartiles each group gets. */
+  static final double[] QUARTILES = {0.25, 0.5, 0.75};
+  /**
+   * Standard errors of a pilot quartile that a group's window covers either side: fewer than the
+   * table-wide search's, as each group's pilot is a fraction of the table's, so that the windows
+   * of every group fit where the table-wide ones do. At 4 a window misses with odds of about 6e-5,
+   * costing the column a later search, never accuracy.
+   */
+  static final double BRACKET_ERRORS = 4.0;
+  /** A window holds up to this many times the values it is expected to, before it overflows. */
+  static final double HEADROOM = 3.0;
+  /** Fewest values a window is allowed to hold. */
+  static final int MIN_HELD = 1_000;
+
+  private final int keyAt;
+  private final int keyTextAt;
+  /** Measured columns (projection positions) tallied, and their validity steps. */
+  private final int[] cols;
+  private final NumericSteps[] validity;
+  private final int maxGroups;
+  /** Per group hash the pilot saw, the first windows of each column. */
+  private final Map<Long, OrderWindows[]> planned;
+
+  // State of one part: open addressing from hash to slot, then per slot.
+  private long[] table;
+  private int[] tableSlot;
+  private int slots;
+  private long[] hashes;
+  private String[][] keys;
+  private OrderWindows[][] windows;
+  private ScaledMoments[][] moments;
+  /** More groups than maxGroups were seen: the tally stopped. */
+  boolean overflowed;
+
+  private GroupTally(int keyAt, int keyTextAt, int[] cols, NumericSteps[] validity, int maxGroups,
+      Map<Long, OrderWindows[]> planned) {
+    this.keyAt = keyAt;
+    this.keyTextAt = keyTextAt;
+    this.cols = cols;
+    this.validity = validity;
+    this.maxGroups = maxGroups;
+    this.planned = planned;
+    int capacity = Integer.highestOneBit(Math.max(16, 4 * (maxGroups + 1)) - 1) << 1;
+    this.table = new long[capacity];
+    this.tableSlot = new int[capacity];
+    Arrays.fill(tableSlot, -1);
+    this.hashes = new long[8];
+    this.keys = new String[8][];
+    this.windows = new OrderWindows[8][];
+    this.moments = new ScaledMoments[8][];
+  }
+
+  /**
+   * The tally's windows, placed by the pilot: for each group the pilot saw and each column, the
+   * quartile windows of {@link RankSearch#firstPlan} at {@value #BRACKET_ERRORS} standard errors.
+   * Empty when their expected held values pass {@code budget}, or the pilot saw more than
+   * {@code maxGroups} groups: the group-wise figures are then all searched after the plan.
+   *
+   * @param cols measured columns (projection positions) to tally
+   * @param pilot the pilot's values per measured column, and its key hashes (empty: no pilot, the
+   *     table is small enough that one window holds each group's values)
+   * @param rows the table's rows
+   */
+  static java.util.Optional<GroupTally> plan(ProfileLayout layout, int[] cols, NumericSteps[] validity,
+      RowScan.Pilot pilot, long rows, int maxGroups, int budget) {
+    Map<Long, OrderWindows[]> planned = new HashMap<>();
+    long[] keys = pilot.keys();
+    if (keys.length == 0) {
+      // No pilot: the table holds at most the budget's values per window; each group's window holds all.
+      return java.util.Optional.of(new GroupTally(layout.keyAt, layout.keyTextAt, cols, validity, maxGroups, planned));
+    }
+    Map<Long, List<Integer>> rowsOf = new LinkedHashMap<>();
+    for (int r = 0; r < keys.length; r++) {
+      rowsOf.computeIfAbsent(keys[r], k -> new ArrayList<>()).add(r);
+    }
+    if (rowsOf.size() > maxGroups) {
+      return java.util.Optional.empty();
+    }
+    long held = 0;
+    for (Map.Entry<Long, List<Integer>> e : rowsOf.entrySet()) {
+      OrderWindows[] w = new OrderWindows[cols.length];
+      for (int c = 0; c < cols.length; c++) {
+        double[] values = new double[e.getValue().size()];
+        int n = 0;
+        for (int r : e.getValue()) {
+          double v = validity[c].valid(pilot.values()[cols[c]][r]);
+          if (!Double.isNaN(v)) {
+            values[n++] = v;
+          }
+        }
+        double[] sorted = RankSearch.sorted(Arrays.copyOf(values, n));
+        long expected = Profiler.expected(rows, n, keys.length);
+        // The widest bracket is the median's: 2 d of the group's values, d as RankSearch.bracket's.
+        double d = n == 0 ? 1.0 : Math.min(1.0, BRACKET_ERRORS * 0.5 / Math.sqrt(n) + 2.0 / n);
+        long perWindow = (long) Math.ceil(2 * d * expected);
+        int cap = (int) Math.min(Integer.MAX_VALUE - 8, Math.max(MIN_HELD, HEADROOM * perWindow));
+        w[c] = new RankSearch(QUARTILES, cap, BRACKET_ERRORS).firstPlan(sorted, expected);
+        held += Math.min(expected, QUARTILES.length * perWindow);
+      }
+      planned.put(e.getKey(), w);
+    }
+    if (held > budget) {
+      return java.util.Optional.empty();
+    }
+    return java.util.Optional.of(new GroupTally(layout.keyAt, layout.keyTextAt, cols, validity, maxGroups, planned));
+  }
+
+  /** An empty tally over the same windows, for one partition. */
+  GroupTally emptyCopy() {
+    return new GroupTally(keyAt, keyTextAt, cols, validity, maxGroups, planned);
+  }
+
+  /** One row of the full projection. */
+  void add(InternalRow row) {
+    if (overflowed) {
+      return;
+    }
+    int s = slotOf(row.getLong(keyAt), row);
+    if (s < 0) {
+      return;
+    }
+    OrderWindows[] w = windows[s];
+    ScaledMoments[] m = moments[s];
+    for (int c = 0; c < cols.length; c++) {
+      int j = cols[c];
+      if (row.isNullAt(j)) {
+        continue;
+      }
+      double x = validity[c].valid(row.getDouble(j));
+      if (!Double.isNaN(x)) {
+        m[c].add(x);
+        if (w[c] != null) {
+          w[c].add(x);
+        }
+      }
+    }
+  }
+
+  /** The slot of a group hash, made on first sight from the row's key text; -1 past maxGroups. */
+  private int slotOf(long hash, InternalRow row) {
+    int at = find(hash);
+    int s = tableSlot[at];
+    if (s >= 0) {
+      return s;
+    }
+    ArrayData text = row.getArray(keyTextAt);
+    String[] key = new String[text.numElements()];
+    for (int i = 0; i < key.length; i++) {
+      key[i] = text.isNullAt(i) ? null : text.getUTF8String(i).toString();
+    }
+    return insert(at, hash, key, null, null);
+  }
+
+  /** The table position of {@code hash}, or the empty position where it would go. */
+  private int find(long hash) {
+    int mask = table.length - 1;
+    int at = (int) (hash ^ (hash >>> 32)) * 0x9E3779B9 & mask;
+    while (tableSlot[at] >= 0 && table[at] != hash) {
+      at = (at + 1) & mask;
+    }
+    return at;
+  }
+
+  private int insert(int at, long hash, String[] key, OrderWindows[] w, ScaledMoments[] m) {
+    if (slots == maxGroups) {
+      overflowed = true;
+      return -1;
+    }
+    if (slots == hashes.length) {
+      int grown = 2 * slots;
+      hashes = Arrays.copyOf(hashes, grown);
+      keys = Arrays.copyOf(keys, grown);
+      windows = Arrays.copyOf(windows, grown);
+      moments = Arrays.copyOf(moments, grown);
+    }
+    int s = slots++;
+    table[at] = hash;
+    tableSlot[at] = s;
+    hashes[s] = hash;
+    keys[s] = key;
+    if (w == null) {
+      OrderWindows[] template = planned.get(hash);
+      w = new OrderWindows[cols.length];
+      m = new ScaledMoments[cols.length];
+      for (int c = 0; c < cols.length; c++) {
+        w[c] = template != null ? template[c].emptyCopy() : planned.isEmpty() ? everything() : null;
+        m[c] = new ScaledMoments();
+      }
+    }
+    windows[s] = w;
+    moments[s] = m;
+    return s;
+  }
+
+  /** One window holding every value: for a table small enough to need no pilot. */
+  private OrderWindows everything() {
+    return new OrderWindows(new long[] {Long.MIN_VALUE}, new long[] {Long.MAX_VALUE}, new boolean[] {false},
+        Integer.MAX_VALUE - 8);
+  }
+
+  /** Folds another part's tally into this one and returns this. */
+  GroupTally merge(GroupTally o) {
+    overflowed |= o.overflowed;
+    for (int t = 0; t < o.slots && !overflowed; t++) {
+      int at = find(o.hashes[t]);
+      int s = tableSlot[at];
+      if (s < 0) {
+        insert(at, o.hashes[t], o.keys[t], o.windows[t], o.moments[t]);
+        continue;
+      }
+      for (int c = 0; c < cols.length; c++) {
+        moments[s][c].merge(o.moments[t][c]);
+        if (windows[s][c] != null) {
+          windows[s][c].merge(o.windows[t][c]);
+        }
+      }
+    }
+    return this;
+  }
+
+  /**
+   * The merged tally's figures per column name ({@code names}: each tallied column's name): a
+   * column is settled when every group with at least {@code minValues} usable values has its
+   * quartiles; a group with fewer gets NaN quartiles (it takes the table-wide figures).
+   */
+  GroupMeasures finish(List<String> by, String[] names, int minValues) {
+    Map<String, Map<List<String>, GroupMeasures.Measure>> settled = new LinkedHashMap<>();
+    Map<String, String> unsettled = new LinkedHashMap<>();
+    if (overflowed) {
+      for (String name : names) {
+        unsettled.put(name, "more than groups.max-groups = " + maxGroups + " groups");
+      }
+      return new GroupMeasures(by, settled, unsettled);
+    }
+    Integer[] order = new Integer[slots];
+    for (int s = 0; s < slots; s++) {
+      order[s] = s;
+    }
+    Arrays.sort(order, (a, b) -> compareKeys(keys[a], keys[b]));
+    for (int c = 0; c < cols.length; c++) {
+      Map<List<String>, GroupMeasures.Measure> groups = new LinkedHashMap<>();
+      String missed = null;
+      for (int s : order) {
+        ScaledMoments m = moments[s][c];
+        double[] q = new double[QUARTILES.length];
+        Arrays.fill(q, Double.NaN);
+        if (m.count() >= minValues) {
+          OrderWindows w = windows[s][c];
+          // A search only reads the merged windows here: its own size limit plays no part.
+          RankSearch search = new RankSearch(QUARTILES, 1);
+          if (w != null && search.absorb(w)) {
+            q = search.quantiles();
+          } else {
+            missed = w == null ? "a group the pilot rows did not include" : "a group's windows missed its quartiles";
+          }
+        }
+        groups.put(Arrays.asList(keys[s]), new GroupMeasures.Measure(m.count(), m.mean(), m.stddev(), q));
+      }
+      if (missed == null) {
+        settled.put(names[c], groups);
+      } else {
+        unsettled.put(names[c], missed);
+      }
+    }
+    return new GroupMeasures(by, settled, unsettled);
+  }
+
+  /** Keys in order, a null value first (as the group search orders them). */
+  static int compareKeys(String[] a, String[] b) {
+    for (int i = 0; i < a.length; i++) {
+      String x = a[i];
+      String y = b[i];
+      int c = x == null ? (y == null ? 0 : -1) : y == null ? 1 : x.compareTo(y);
+      if (c != 0) {
+        return c;
+      }
+    }
+    return 0;
+  }
+}

@@ -1,0 +1,241 @@
+package dev.sluice.profile;
+
+import static org.assertj.core.api.Assertions.assertThat;
+import static org.assertj.core.api.Assertions.within;
+
+import dev.sluice.Sluice;
+import dev.sluice.config.Role;
+import dev.sluice.config.Settings;
+import dev.sluice.config.SettingsLoader;
+import dev.sluice.plan.ColumnPlan;
+import dev.sluice.plan.GroupFigures;
+import dev.sluice.stats.NumericSteps;
+import dev.sluice.testing.SharedSpark;
+import dev.sluice.treat.GroupPass;
+import java.util.ArrayList;
+import java.util.Arrays;
+import java.util.LinkedHashMap;
+import java.util.List;
+import java.util.Map;
+import java.util.Optional;
+import org.apache.commons.math3.stat.descriptive.DescriptiveStatistics;
+import org.apache.commons.math3.stat.descriptive.rank.Percentile;
+import org.apache.commons.math3.stat.ranking.NaNStrategy;
+import org.apache.commons.math3.util.KthSelector;
+import org.apache.spark.sql.Dataset;
+import org.apache.spark.sql.Row;
+import org.apache.spark.sql.RowFactory;
+import org.apache.spark.sql.SparkSession;
+import org.apache.spark.sql.types.DataTypes;
+import org.apache.spark.sql.types.StructType;
+import org.junit.jupiter.api.Test;
+import org.junit.jupiter.api.extension.ExtendWith;
+
+/**
+ * Group-wise figures measured in pass 1, on tables large enough (against lowered memory settings)
+ * that the pilot places each group's quartile windows. References: Apache Commons Math's
+ * Percentile with estimation type R_7 (Hyndman and Fan type 7) and DescriptiveStatistics (mean,
+ * sample standard deviation), applied to each group's values; and the group search after the plan
+ * (itself checked against Commons Math in treat/GroupWiseTest), which must give the same plan.
+ */
+@ExtendWith(SharedSpark.class)
+class GroupTallyTest {
+  /**
+   * Small enough that a pilot is taken: 60,000 / (3 quartiles x 2 columns) = 10,000 values per
+   * window, fewer than the table's 20,030 rows; large enough for the groups' windows.
+   */
+  private static final String[] SMALL_MEMORY = {"quantiles.max-held-values=60000", "quantiles.pilot-rows=2000"};
+
+  /**
+   * Dock dwell hours of our own scenario. A: 12,000 values spread over 0..1000 h, B: 8,000
+   * values over 500..2500 h, C: 30 values (fewer than groups.min-values); rows of the three
+   * interleaved. {@code late}: a depot D of 60 values in the last rows only, where the pilot (the
+   * first rows of the partitions) never looks.
+   */
+  private static Map<String, double[]> values(boolean late) {
+    Map<String, double[]> out = new LinkedHashMap<>();
+    out.put("A", spread(12_000, 10_007, 0.1, 0));
+    out.put("B", spread(8_000, 8_009, 0.25, 500));
+    out.put("C", spread(30, 31, 3, 40));
+    if (late) {
+      out.put("D", spread(60, 61, 2, 5_000));
+    }
+    return out;
+  }
+
+  /** n values ((i * 7919) mod m) * step + from: a deterministic scatter with ties where n > m. */
+  private static double[] spread(int n, int m, double step, double from) {
+    double[] v = new double[n];
+    for (int i = 0; i < n; i++) {
+      v[i] = (i * 7919L % m) * step + from;
+    }
+    return v;
+  }
+
+  private static Dataset<Row> table(SparkSession spark, Map<String, double[]> values) {
+    List<Row> rows = new ArrayList<>();
+    int longest = values.values().stream().mapToInt(v -> v.length).max().orElse(0);
+    for (int i = 0; i < longest; i++) {
+      for (Map.Entry<String, double[]> e : values.entrySet()) {
+        if (!e.getKey().equals("D") && i < e.getValue().length) {
+          rows.add(RowFactory.create(e.getKey(), e.getValue()[i], i % 17 == 0 ? null : (double) (i % 5)));
+        }
+      }
+    }
+    for (double v : values.getOrDefault("D", new double[0])) {
+      rows.add(RowFactory.create("D", v, 1.0));
+    }
+    StructType schema = new StructType().add("depot", DataTypes.StringType)
+        .add("dwell hours", DataTypes.DoubleType).add("doors", DataTypes.DoubleType);
+    return spark.createDataFrame(rows, schema).coalesce(2);
+  }
+
+  private static Settings settings(String... more) {
+    List<String> all = new ArrayList<>(List.of("groups.by=[depot]", "columns.depot.role=keep",
+        "collinearity.enabled=false"));
+    all.addAll(Arrays.asList(SMALL_MEMORY));
+    all.addAll(Arrays.asList(more));
+    return SettingsLoader.load(Optional.empty(), all);
+  }
+
+  private static double r7(double[] values, double p) {
+    return new Percentile().withEstimationType(Percentile.EstimationType.R_7)
+        .withNaNStrategy(NaNStrategy.FIXED).withKthSelector(new KthSelector()).evaluate(values, p * 100);
+  }
+
+  @Test
+  void passOneGivesEachGroupItsExactType7QuartilesMeanAndStandardDeviation(SparkSession spark) {
+    Map<String, double[]> values = values(false);
+    Sluice.Fit fit = Sluice.fit(table(spark, values), settings(), List.of());
+    // The pilot path: the table holds more values than one window may.
+    assertThat(fit.profile().pilotOf("dwell hours")).isNotEmpty();
+    GroupMeasures g = fit.profile().groups();
+    assertThat(g.unsettled()).isEmpty();
+    Map<List<String>, GroupMeasures.Measure> dwell = g.columns().get("dwell hours");
+    assertThat(dwell.keySet()).containsExactly(List.of("A"), List.of("B"), List.of("C"));
+    for (String depot : List.of("A", "B")) {
+      GroupMeasures.Measure m = dwell.get(List.of(depot));
+      double[] v = values.get(depot);
+      DescriptiveStatistics ref = new DescriptiveStatistics(v);
+      assertThat(m.usable()).isEqualTo(v.length);
+      assertThat(m.quartiles()).containsExactly(r7(v, 0.25), r7(v, 0.5), r7(v, 0.75));
+      assertThat(m.mean()).isCloseTo(ref.getMean(), within(1e-9 * ref.getMean()));
+      assertThat(m.stddev()).isCloseTo(ref.getStandardDeviation(), within(1e-9 * ref.getStandardDeviation()));
+    }
+    // C has too few values for its own quartiles: counted, none searched.
+    GroupMeasures.Measure c = dwell.get(List.of("C"));
+    assertThat(c.usable()).isEqualTo(30);
+    assertThat(c.quartiles()).containsOnly(Double.NaN);
+    // The doors column (a median fill) is settled too; its nulls are not values.
+    assertThat(g.columns().get("doors").get(List.of("A")).usable()).isEqualTo(12_000 - (12_000 + 16) / 17);
+  }
+
+  @Test
+  void thePlanFromPassOneIsThePlanOfTheSearchAfterIt(SparkSession spark) {
+    Dataset<Row> data = table(spark, values(false));
+    Settings settings = settings();
+    Sluice.Fit fit = Sluice.fit(data, settings, List.of());
+    assertThat(GroupPass.searchedAfterPlan(fit.plan().columns(), fit.profile().groups())).isEmpty();
+    List<ColumnPlan> tableWide = fit.plan().columns().stream().map(cp -> cp.withGroups(null)).toList();
+    List<ColumnPlan> searched = GroupPass.fit(data, tableWide, settings, fit.profile().rows(), null);
+    for (String col : List.of("dwell hours", "doors")) {
+      assertThat(figures(fit.plan().columns(), col)).isEqualTo(figures(searched, col));
+    }
+    // A's own Tukey fences (k = 1.5, common practice) from its Commons Math quartiles.
+    double[] a = values(false).get("A");
+    double iqr = r7(a, 0.75) - r7(a, 0.25);
+    GroupFigures.Group ga = figures(fit.plan().columns(), "dwell hours").stream()
+        .filter(x -> x.key().equals(List.of("A"))).findFirst().orElseThrow();
+    assertThat(ga.lower()).isCloseTo(r7(a, 0.25) - 1.5 * iqr, within(1e-9));
+    assertThat(ga.upper()).isCloseTo(r7(a, 0.75) + 1.5 * iqr, within(1e-9));
+  }
+
+  @Test
+  void aGroupThePilotNeverSawIsSearchedAfterThePlan(SparkSession spark) {
+    Map<String, double[]> values = values(true);
+    Dataset<Row> data = table(spark, values);
+    Sluice.Fit fit = Sluice.fit(data, settings(), List.of());
+    GroupMeasures g = fit.profile().groups();
+    assertThat(g.unsettled()).containsEntry("dwell hours", "a group the pilot rows did not include");
+    assertThat(GroupPass.searchedAfterPlan(fit.plan().columns(), g)).containsKey("dwell hours");
+    double[] d = values.get("D");
+    double iqr = r7(d, 0.75) - r7(d, 0.25);
+    GroupFigures.Group gd = figures(fit.plan().columns(), "dwell hours").stream()
+        .filter(x -> x.key().equals(List.of("D"))).findFirst().orElseThrow();
+    assertThat(gd.fallback()).isNull();
+    assertThat(gd.lower()).isCloseTo(r7(d, 0.25) - 1.5 * iqr, within(1e-9));
+    assertThat(gd.upper()).isCloseTo(r7(d, 0.75) + 1.5 * iqr, within(1e-9));
+  }
+
+  @Test
+  void moreGroupsThanTheLimitStopTheTallyAndLeaveEveryColumnToTheSearch(SparkSession spark) {
+    Map<String, Role> roles = Map.of("depot", Role.KEEP, "dwell hours", Role.TREAT, "doors", Role.TREAT);
+    // The pilot sees A, B and C, within the limit; the late depot D is the fourth group.
+    TableProfile p = Profiler.profile(table(spark, values(true)), settings("groups.max-groups=3"), roles);
+    assertThat(p.groups().columns()).isEmpty();
+    assertThat(p.groups().unsettled()).containsOnlyKeys("dwell hours", "doors")
+        .containsValue("more than groups.max-groups = 3 groups");
+    // More groups in the pilot than the limit: no tally at all.
+    TableProfile q = Profiler.profile(table(spark, values(false)), settings("groups.max-groups=2"), roles);
+    assertThat(q.groups().columns()).isEmpty();
+    assertThat(q.groups().unsettled()).containsOnlyKeys("dwell hours", "doors");
+  }
+
+  @Test
+  void windowsThatMissAGroupsQuartilesLeaveItsColumnToTheSearch() {
+    StructType schema = new StructType().add("depot", DataTypes.StringType).add("dwell hours", DataTypes.DoubleType);
+    ProfileLayout layout = ProfileLayout.of(schema, Map.of("depot", Role.KEEP, "dwell hours", Role.TREAT),
+        List.of("depot"));
+    // The pilot saw depot 7 (hash 7) with values 0 .. 1999, in a table of a million rows.
+    double[] pilot = new double[2_000];
+    long[] keys = new long[2_000];
+    for (int i = 0; i < pilot.length; i++) {
+      pilot[i] = i;
+      keys[i] = 7;
+    }
+    NumericSteps[] valid = {NumericSteps.validity(null, null)};
+    GroupTally tally = GroupTally.plan(layout, new int[] {0}, valid, new RowScan.Pilot(new double[][] {pilot}, keys),
+        1_000_000, 10, 8_000_000).orElseThrow();
+    // The pass then finds depot 7's values far above its windows; depot 8, unseen, has 10 values.
+    GroupTally part1 = tally.emptyCopy();
+    GroupTally part2 = tally.emptyCopy();
+    for (int i = 0; i < 1_000; i++) {
+      (i % 2 == 0 ? part1 : part2).add(row(layout, 7, "seven", 5_000.0 + i));
+    }
+    for (int i = 0; i < 10; i++) {
+      part2.add(row(layout, 8, "eight", i));
+    }
+    GroupMeasures g = part1.merge(part2).finish(List.of("depot"), new String[] {"dwell hours"}, 50);
+    assertThat(g.columns()).isEmpty();
+    assertThat(g.unsettled()).containsEntry("dwell hours", "a group's windows missed its quartiles");
+    // Without depot 7's values beyond the windows: the small unseen group needs no quartiles.
+    GroupTally fits = tally.emptyCopy();
+    for (int i = 0; i < 1_000; i++) {
+      fits.add(row(layout, 7, "seven", 2.0 * i));
+    }
+    for (int i = 0; i < 10; i++) {
+      fits.add(row(layout, 8, "eight", i));
+    }
+    GroupMeasures ok = fits.finish(List.of("depot"), new String[] {"dwell hours"}, 50);
+    double[] seven = new double[1_000];
+    Arrays.setAll(seven, i -> 2.0 * i);
+    assertThat(ok.columns().get("dwell hours").get(List.of("seven")).quartiles())
+        .containsExactly(r7(seven, 0.25), r7(seven, 0.5), r7(seven, 0.75));
+    assertThat(ok.columns().get("dwell hours").get(List.of("eight")).usable()).isEqualTo(10);
+  }
+
+  /** A row of the layout's full projection: the value, the key's hash and its text. */
+  private static org.apache.spark.sql.catalyst.InternalRow row(ProfileLayout layout, long hash, String key,
+      double value) {
+    Object[] cells = new Object[layout.keyTextAt + 1];
+    cells[0] = value;
+    cells[layout.keyAt] = hash;
+    cells[layout.keyTextAt] = org.apache.spark.sql.catalyst.util.ArrayData.toArrayData(
+        new Object[] {org.apache.spark.unsafe.types.UTF8String.fromString(key)});
+    return new org.apache.spark.sql.catalyst.expressions.GenericInternalRow(cells);
+  }
+
+  private static List<GroupFigures.Group> figures(List<ColumnPlan> columns, String name) {
+    return columns.stream().filter(cp -> cp.name().equals(name)).findFirst().orElseThrow().groups().groups();
+  }
+}
