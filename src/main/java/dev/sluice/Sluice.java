@@ -77,7 +77,7 @@ public final class Sluice {
     seconds.put("treated-statistics", elapsed(t1));
     Plan plan = Planner.finish(profile, settings, outliers, stats);
     if (settings.groups().any()) {
-      Map<String, String> searched = GroupPass.searchedAfterPlan(plan.columns(), profile.groups());
+      Map<String, String> searched = GroupPass.searchedAfterPlan(plan.columns(), settings.groups().by(), profile.groups());
       progress.accept("group-wise limits and fill values by " + String.join(", ", settings.groups().by())
           + (searched.isEmpty() ? ": group quartiles from pass 1"
               : ": searching the group quartiles of " + String.join(", ", searched.keySet()) + " ("

@@ -5,17 +5,19 @@ import java.util.Map;
 
 /**
  * What pass 1 measured of each group of groups.by, for the columns whose group-wise limits or fill
- * values it could settle: per column, per group key (in key order), the usable values' count,
- * mean, sample standard deviation and exact type 7 quartiles. A column is absent when some group
+ * values it could settle: per measured column, per group key (in key order), the usable values'
+ * count, mean, sample standard deviation and exact type 7 quartiles; per categorical column, the
+ * group's count of values and its mode. A column is absent when some group
  * with enough values to need its quartiles was not settled in pass 1 (a group the pilot never
  * saw, a window that missed); its figures are then searched after the plan.
  *
  * @param by the group key columns
- * @param columns per settled column, its groups' figures
+ * @param columns per settled measured column, its groups' figures
+ * @param modes per settled categorical column filled with its mode, its groups' modes
  * @param unsettled the candidate columns left to the later search, each with the reason
  */
 public record GroupMeasures(List<String> by, Map<String, Map<List<String>, Measure>> columns,
-    Map<String, String> unsettled) {
+    Map<String, Map<List<String>, Mode>> modes, Map<String, String> unsettled) {
 
   /**
    * One group's usable values of one column.
@@ -24,10 +26,18 @@ public record GroupMeasures(List<String> by, Map<String, Map<List<String>, Measu
    */
   public record Measure(long usable, double mean, double stddev, double[] quartiles) {}
 
+  /**
+   * One group's values of one categorical column.
+   *
+   * @param values its non-null values
+   * @param mode the most frequent, ties to the smallest (null: none)
+   */
+  public record Mode(long values, String mode) {}
+
   /** Nothing settled: every column in {@code columns} left to the later search, for one reason. */
   static GroupMeasures none(List<String> by, List<String> columns, String reason) {
     Map<String, String> unsettled = new java.util.LinkedHashMap<>();
     columns.forEach(c -> unsettled.put(c, reason));
-    return new GroupMeasures(by, Map.of(), unsettled);
+    return new GroupMeasures(by, Map.of(), Map.of(), unsettled);
   }
 }

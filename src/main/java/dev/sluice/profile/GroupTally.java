@@ -1,5 +1,6 @@
 package dev.sluice.profile;
 
+import dev.sluice.stats.HashedCounts;
 import dev.sluice.stats.NumericSteps;
 import dev.sluice.stats.OrderWindows;
 import dev.sluice.stats.RankSearch;
@@ -13,6 +14,7 @@ import java.util.List;
 import java.util.Map;
 import org.apache.spark.sql.catalyst.InternalRow;
 import org.apache.spark.sql.catalyst.util.ArrayData;
+import org.apache.spark.unsafe.types.UTF8String;
 
 /**
  * Pass 1's group-wise share: per group of groups.by, the count, moments and quartile windows of
@@ -46,6 +48,8 @@ final class GroupTally implements Serializable {
   static final double HEADROOM = 3.0;
   /** Fewest values a window is allowed to hold. */
   static final int MIN_HELD = 1_000;
+  /** Distinct values the groups' counts of one categorical column hold in all, at most. */
+  static final long TEXT_BUDGET = 2_000_000;
 
   private final int keyAt;
   private final int keyTextAt;
@@ -53,6 +57,13 @@ final class GroupTally implements Serializable {
   private final int[] cols;
   private final NumericSteps[] validity;
   private final int maxGroups;
+  /**
+   * Categorical columns tallied for their group modes: projection positions of their text and
+   * hash, and the most distinct values each group's count holds before it overflows.
+   */
+  private final int[] textAt;
+  private final int[] textHashAt;
+  private final int textLimit;
   /** Per group hash the pilot saw, the first windows of each column. */
   private final Map<Long, OrderWindows[]> planned;
 
@@ -64,16 +75,21 @@ final class GroupTally implements Serializable {
   private String[][] keys;
   private OrderWindows[][] windows;
   private ScaledMoments[][] moments;
+  private long[][] present;
+  private HashedCounts<UTF8String>[][] texts;
   /** More groups than maxGroups were seen: the tally stopped. */
   boolean overflowed;
 
   private GroupTally(int keyAt, int keyTextAt, int[] cols, NumericSteps[] validity, int maxGroups,
-      Map<Long, OrderWindows[]> planned) {
+      int[] textAt, int[] textHashAt, int textLimit, Map<Long, OrderWindows[]> planned) {
     this.keyAt = keyAt;
     this.keyTextAt = keyTextAt;
     this.cols = cols;
     this.validity = validity;
     this.maxGroups = maxGroups;
+    this.textAt = textAt;
+    this.textHashAt = textHashAt;
+    this.textLimit = textLimit;
     this.planned = planned;
     int capacity = Integer.highestOneBit(Math.max(16, 4 * (maxGroups + 1)) - 1) << 1;
     this.table = new long[capacity];
@@ -83,6 +99,13 @@ final class GroupTally implements Serializable {
     this.keys = new String[8][];
     this.windows = new OrderWindows[8][];
     this.moments = new ScaledMoments[8][];
+    this.present = new long[8][];
+    this.texts = newTexts(8);
+  }
+
+  @SuppressWarnings("unchecked")
+  private static HashedCounts<UTF8String>[][] newTexts(int n) {
+    return new HashedCounts[n][];
   }
 
   /**
@@ -92,24 +115,34 @@ final class GroupTally implements Serializable {
    * {@code maxGroups} groups: the group-wise figures are then all searched after the plan.
    *
    * @param cols measured columns (projection positions) to tally
+   * @param text categorical columns (table positions) whose group modes to tally
    * @param pilot the pilot's values per measured column, and its key hashes (empty: no pilot, the
    *     table is small enough that one window holds each group's values)
    * @param rows the table's rows
    */
   static java.util.Optional<GroupTally> plan(ProfileLayout layout, int[] cols, NumericSteps[] validity,
-      RowScan.Pilot pilot, long rows, int maxGroups, int budget) {
+      int[] text, RowScan.Pilot pilot, long rows, int maxGroups, int budget) {
     Map<Long, OrderWindows[]> planned = new HashMap<>();
     long[] keys = pilot.keys();
-    if (keys.length == 0) {
-      // No pilot: the table holds at most the budget's values per window; each group's window holds all.
-      return java.util.Optional.of(new GroupTally(layout.keyAt, layout.keyTextAt, cols, validity, maxGroups, planned));
-    }
     Map<Long, List<Integer>> rowsOf = new LinkedHashMap<>();
     for (int r = 0; r < keys.length; r++) {
       rowsOf.computeIfAbsent(keys[r], k -> new ArrayList<>()).add(r);
     }
     if (rowsOf.size() > maxGroups) {
       return java.util.Optional.empty();
+    }
+    int[] textAt = new int[text.length];
+    int[] textHashAt = new int[text.length];
+    for (int t = 0; t < text.length; t++) {
+      textAt[t] = layout.at[text[t]];
+      textHashAt[t] = layout.hashAt[text[t]];
+    }
+    int textLimit = (int) Math.max(MIN_HELD, Math.min(ProfileAccumulator.COUNTED_VALUES,
+        TEXT_BUDGET / Math.max(1L, (long) Math.max(1, rowsOf.size()) * Math.max(1, text.length))));
+    if (keys.length == 0) {
+      // No pilot: the table holds at most the budget's values per window; each group's window holds all.
+      return java.util.Optional.of(new GroupTally(layout.keyAt, layout.keyTextAt, cols, validity, maxGroups,
+          textAt, textHashAt, textLimit, planned));
     }
     long held = 0;
     for (Map.Entry<Long, List<Integer>> e : rowsOf.entrySet()) {
@@ -137,12 +170,13 @@ final class GroupTally implements Serializable {
     if (held > budget) {
       return java.util.Optional.empty();
     }
-    return java.util.Optional.of(new GroupTally(layout.keyAt, layout.keyTextAt, cols, validity, maxGroups, planned));
+    return java.util.Optional.of(new GroupTally(layout.keyAt, layout.keyTextAt, cols, validity, maxGroups,
+        textAt, textHashAt, textLimit, planned));
   }
 
   /** An empty tally over the same windows, for one partition. */
   GroupTally emptyCopy() {
-    return new GroupTally(keyAt, keyTextAt, cols, validity, maxGroups, planned);
+    return new GroupTally(keyAt, keyTextAt, cols, validity, maxGroups, textAt, textHashAt, textLimit, planned);
   }
 
   /** One row of the full projection. */
@@ -169,6 +203,17 @@ final class GroupTally implements Serializable {
         }
       }
     }
+    long[] n = present[s];
+    HashedCounts<UTF8String>[] counts = texts[s];
+    for (int t = 0; t < textAt.length; t++) {
+      if (!row.isNullAt(textAt[t])) {
+        n[t]++;
+        long hash = row.getLong(textHashAt[t]);
+        if (!counts[t].increment(hash)) {
+          counts[t].insert(hash, row.getUTF8String(textAt[t]).copy());
+        }
+      }
+    }
   }
 
   /** The slot of a group hash, made on first sight from the row's key text; -1 past maxGroups. */
@@ -183,7 +228,7 @@ final class GroupTally implements Serializable {
     for (int i = 0; i < key.length; i++) {
       key[i] = text.isNullAt(i) ? null : text.getUTF8String(i).toString();
     }
-    return insert(at, hash, key, null, null);
+    return insert(at, hash, key, null, null, null, null);
   }
 
   /** The table position of {@code hash}, or the empty position where it would go. */
@@ -196,7 +241,8 @@ final class GroupTally implements Serializable {
     return at;
   }
 
-  private int insert(int at, long hash, String[] key, OrderWindows[] w, ScaledMoments[] m) {
+  private int insert(int at, long hash, String[] key, OrderWindows[] w, ScaledMoments[] m, long[] n,
+      HashedCounts<UTF8String>[] counts) {
     if (slots == maxGroups) {
       overflowed = true;
       return -1;
@@ -207,6 +253,8 @@ final class GroupTally implements Serializable {
       keys = Arrays.copyOf(keys, grown);
       windows = Arrays.copyOf(windows, grown);
       moments = Arrays.copyOf(moments, grown);
+      present = Arrays.copyOf(present, grown);
+      texts = Arrays.copyOf(texts, grown);
     }
     int s = slots++;
     table[at] = hash;
@@ -221,10 +269,23 @@ final class GroupTally implements Serializable {
         w[c] = template != null ? template[c].emptyCopy() : planned.isEmpty() ? everything() : null;
         m[c] = new ScaledMoments();
       }
+      n = new long[textAt.length];
+      counts = newCounts(textAt.length, textLimit);
     }
     windows[s] = w;
     moments[s] = m;
+    present[s] = n;
+    texts[s] = counts;
     return s;
+  }
+
+  @SuppressWarnings("unchecked")
+  private static HashedCounts<UTF8String>[] newCounts(int n, int limit) {
+    HashedCounts<UTF8String>[] out = new HashedCounts[n];
+    for (int t = 0; t < n; t++) {
+      out[t] = new HashedCounts<>(limit);
+    }
+    return out;
   }
 
   /** One window holding every value: for a table small enough to need no pilot. */
@@ -240,8 +301,12 @@ final class GroupTally implements Serializable {
       int at = find(o.hashes[t]);
       int s = tableSlot[at];
       if (s < 0) {
-        insert(at, o.hashes[t], o.keys[t], o.windows[t], o.moments[t]);
+        insert(at, o.hashes[t], o.keys[t], o.windows[t], o.moments[t], o.present[t], o.texts[t]);
         continue;
+      }
+      for (int x = 0; x < textAt.length; x++) {
+        present[s][x] += o.present[t][x];
+        texts[s][x].merge(o.texts[t][x]);
       }
       for (int c = 0; c < cols.length; c++) {
         moments[s][c].merge(o.moments[t][c]);
@@ -254,18 +319,24 @@ final class GroupTally implements Serializable {
   }
 
   /**
-   * The merged tally's figures per column name ({@code names}: each tallied column's name): a
-   * column is settled when every group with at least {@code minValues} usable values has its
-   * quartiles; a group with fewer gets NaN quartiles (it takes the table-wide figures).
+   * The merged tally's figures per column name ({@code names}, {@code textNames}: each tallied
+   * measured and categorical column's name): a measured column is settled when every group with
+   * at least {@code minValues} usable values has its quartiles, a group with fewer getting NaN
+   * quartiles (it takes the table-wide figures); a categorical column, when no such group
+   * overflowed its count of distinct values.
    */
-  GroupMeasures finish(List<String> by, String[] names, int minValues) {
+  GroupMeasures finish(List<String> by, String[] names, String[] textNames, int minValues) {
     Map<String, Map<List<String>, GroupMeasures.Measure>> settled = new LinkedHashMap<>();
+    Map<String, Map<List<String>, GroupMeasures.Mode>> modes = new LinkedHashMap<>();
     Map<String, String> unsettled = new LinkedHashMap<>();
     if (overflowed) {
       for (String name : names) {
         unsettled.put(name, "more than groups.max-groups = " + maxGroups + " groups");
       }
-      return new GroupMeasures(by, settled, unsettled);
+      for (String name : textNames) {
+        unsettled.put(name, "more than groups.max-groups = " + maxGroups + " groups");
+      }
+      return new GroupMeasures(by, settled, modes, unsettled);
     }
     Integer[] order = new Integer[slots];
     for (int s = 0; s < slots; s++) {
@@ -297,7 +368,22 @@ final class GroupTally implements Serializable {
         unsettled.put(names[c], missed);
       }
     }
-    return new GroupMeasures(by, settled, unsettled);
+    for (int t = 0; t < textAt.length; t++) {
+      Map<List<String>, GroupMeasures.Mode> groups = new LinkedHashMap<>();
+      boolean overflowedCounts = false;
+      for (int s : order) {
+        long n = present[s][t];
+        HashedCounts<UTF8String> counts = texts[s][t];
+        overflowedCounts |= n >= minValues && counts.overflowed();
+        groups.put(Arrays.asList(keys[s]), new GroupMeasures.Mode(n, counts.top() == null ? null : counts.top().toString()));
+      }
+      if (overflowedCounts) {
+        unsettled.put(textNames[t], "a group with more than " + textLimit + " distinct values");
+      } else {
+        modes.put(textNames[t], groups);
+      }
+    }
+    return new GroupMeasures(by, settled, modes, unsettled);
   }
 
   /** Keys in order, a null value first (as the group search orders them). */

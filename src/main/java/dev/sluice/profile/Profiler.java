@@ -59,7 +59,8 @@ public final class Profiler {
     long rows = data.count();
     ProfileLayout layout = ProfileLayout.of(data.schema(), roles);
     List<String> grouped = groupCandidates(layout, settings);
-    if (!grouped.isEmpty()) {
+    List<String> groupedText = groupTextCandidates(layout, settings);
+    if (!grouped.isEmpty() || !groupedText.isEmpty()) {
       layout = ProfileLayout.of(data.schema(), roles, settings.groups().by());
     }
     int[] measured = layout.measuredColumns();
@@ -75,7 +76,8 @@ public final class Profiler {
       ColumnSettings cs = settings.column(layout.names[measured[j]]);
       validity[j] = NumericSteps.validity(boxed(cs.validMin()), boxed(cs.validMax()));
     }
-    GroupTally tally = grouped.isEmpty() ? null : groupTally(layout, measured, validity, grouped, taken, rows, settings);
+    GroupTally tally = grouped.isEmpty() && groupedText.isEmpty() ? null
+        : groupTally(layout, measured, validity, grouped, groupedText, taken, rows, settings);
     int[] sampled = sampledColumns(layout, measured, settings);
     double[][] usable = new double[measured.length][];
     // Columns sorted side by side on the driver's cores, while the executors wait for pass 1.
@@ -122,18 +124,22 @@ public final class Profiler {
         acc.early == null ? null : acc.early.comoments,
         acc.early == null ? null : acc.early.actions(), acc.early == null ? null : acc.early.bands(),
         kept.isEmpty() ? null : kept.get(0), acc.early != null && acc.early.overflowed);
-    GroupMeasures groups = grouped.isEmpty() ? null
-        : tally == null ? GroupMeasures.none(settings.groups().by(), grouped,
+    List<String> all = new ArrayList<>(grouped);
+    all.addAll(groupedText);
+    GroupMeasures groups = all.isEmpty() ? null
+        : tally == null ? GroupMeasures.none(settings.groups().by(), all,
             "the pilot showed more groups, or wider windows, than pass 1 holds")
-        : acc.groups.finish(settings.groups().by(), grouped.toArray(new String[0]), settings.groups().minValues());
+        : acc.groups.finish(settings.groups().by(), grouped.toArray(new String[0]),
+            groupedText.toArray(new String[0]), settings.groups().minValues());
     return new TableProfile(acc.rows, columns(data.sparkSession(), layout, acc, quartiles, mad),
         sampleNames, acc.sample, pilotByName, quartiles, share, acc.trackedNames(), acc.together, groups);
   }
 
   /**
    * The measured columns that may get group-wise figures, in table order (none without
-   * groups.by): treated, with IQR or z-score limits or a median or mean fill. The plan may still
-   * leave some untreated; measuring them costs pass 1 a little, never a pass.
+   * groups.by): treated, not key columns, with outlier limits or a median, mean or mode fill (a
+   * group's MAD and mode are measured after the plan, from what pass 1 gives here). The plan may
+   * still leave some untreated; measuring them costs pass 1 a little, never a pass.
    */
   static List<String> groupCandidates(ProfileLayout layout, Settings settings) {
     List<String> out = new ArrayList<>();
@@ -143,10 +149,14 @@ public final class Profiler {
     for (int i : layout.measuredColumns()) {
       String name = layout.names[i];
       Role role = layout.roles[i];
+      if (settings.groups().by().contains(name)) {
+        continue;
+      }
       ColumnSettings cs = settings.column(name);
-      boolean limits = cs.outliers().method() == OutlierMethod.IQR || cs.outliers().method() == OutlierMethod.ZSCORE;
-      boolean fill = cs.missing().strategy() == dev.sluice.config.ImputeStrategy.MEDIAN
-          || cs.missing().strategy() == dev.sluice.config.ImputeStrategy.MEAN;
+      boolean limits = cs.outliers().method() != OutlierMethod.NONE;
+      dev.sluice.config.ImputeStrategy strategy = cs.missing().strategy();
+      boolean fill = strategy == dev.sluice.config.ImputeStrategy.MEDIAN
+          || strategy == dev.sluice.config.ImputeStrategy.MEAN || strategy == dev.sluice.config.ImputeStrategy.MODE;
       if ((role == Role.TREAT || role == Role.REQUIRED) && (limits || fill)) {
         out.add(name);
       }
@@ -154,9 +164,29 @@ public final class Profiler {
     return out;
   }
 
-  /** The group tally of pass 1 over the measured columns among {@code grouped}, or null. */
+  /**
+   * The categorical columns that may get group-wise modes, in table order (none without
+   * groups.by): treated, not key columns, filled by the mode (any strategy but none and constant).
+   */
+  static List<String> groupTextCandidates(ProfileLayout layout, Settings settings) {
+    List<String> out = new ArrayList<>();
+    if (!settings.groups().any()) {
+      return out;
+    }
+    for (int i : layout.categorical) {
+      String name = layout.names[i];
+      dev.sluice.config.ImputeStrategy strategy = settings.column(name).missing().strategy();
+      if (layout.roles[i] == Role.TREAT && !settings.groups().by().contains(name)
+          && strategy != dev.sluice.config.ImputeStrategy.NONE && strategy != dev.sluice.config.ImputeStrategy.CONSTANT) {
+        out.add(name);
+      }
+    }
+    return out;
+  }
+
+  /** The group tally of pass 1 over the columns in {@code grouped} and {@code groupedText}, or null. */
   private static GroupTally groupTally(ProfileLayout layout, int[] measured, NumericSteps[] validity,
-      List<String> grouped, RowScan.Pilot pilot, long rows, Settings settings) {
+      List<String> grouped, List<String> groupedText, RowScan.Pilot pilot, long rows, Settings settings) {
     List<Integer> cols = new ArrayList<>();
     List<NumericSteps> steps = new ArrayList<>();
     for (String name : grouped) {
@@ -167,8 +197,9 @@ public final class Profiler {
         }
       }
     }
+    int[] text = groupedText.stream().mapToInt(name -> java.util.Arrays.asList(layout.names).indexOf(name)).toArray();
     return GroupTally.plan(layout, cols.stream().mapToInt(Integer::intValue).toArray(),
-        steps.toArray(new NumericSteps[0]), pilot, rows, settings.groups().maxGroups(),
+        steps.toArray(new NumericSteps[0]), text, pilot, rows, settings.groups().maxGroups(),
         settings.quantiles().maxHeldValues()).orElse(null);
   }
 

@@ -74,15 +74,28 @@ public final class GroupPass {
   public static List<ColumnPlan> fit(Dataset<Row> data, List<ColumnPlan> columns, Settings settings, long rows,
       GroupMeasures passOne) {
     List<String> by = settings.groups().by();
-    List<ColumnPlan> grouped = columns.stream().filter(GroupPass::grouped).toList();
-    List<ColumnPlan> modes = columns.stream().filter(GroupPass::groupedMode).toList();
+    // A key column is the same in the whole of each group: it gets no group-wise figures.
+    List<ColumnPlan> grouped = columns.stream().filter(cp -> grouped(cp) && !by.contains(cp.name())).toList();
+    List<ColumnPlan> modes = columns.stream().filter(cp -> groupedMode(cp) && !by.contains(cp.name())).toList();
     if (by.isEmpty() || grouped.isEmpty() && modes.isEmpty()) {
       return columns;
     }
     int maxGroups = settings.groups().maxGroups();
+    int minValues = settings.groups().minValues();
     Map<String, List<GroupFigures.Group>> figures = new HashMap<>();
-    if (!modes.isEmpty()) {
-      figures.putAll(modes(data, by, modes, settings.groups().minValues(), maxGroups));
+    List<ColumnPlan> modesSearched = new ArrayList<>();
+    for (ColumnPlan cp : modes) {
+      Map<List<String>, GroupMeasures.Mode> counted = passOne == null ? null : passOne.modes().get(cp.name());
+      if (counted == null) {
+        modesSearched.add(cp);
+        continue;
+      }
+      List<GroupFigures.Group> groups = new ArrayList<>();
+      counted.forEach((key, m) -> groups.add(modeGroup(key, m.values(), m.mode(), minValues)));
+      figures.put(cp.name(), groups);
+    }
+    if (!modesSearched.isEmpty()) {
+      figures.putAll(modes(data, by, modesSearched, minValues, maxGroups));
     }
     if (grouped.isEmpty()) {
       return withFigures(columns, figures, by);
@@ -112,6 +125,9 @@ public final class GroupPass {
         measured.put(searched.get(j).name(), stats);
       }
     }
+    List<ColumnPlan> madColumns = grouped.stream().filter(GroupPlanner::needsMad).toList();
+    Map<String, Map<List<String>, Double>> mads = madColumns.isEmpty() ? Map.of()
+        : mads(data, by, madColumns, measured, maxGroups, sketchSize(rows, madColumns.size(), maxHeld));
     List<ColumnPlan> second = new ArrayList<>();
     for (ColumnPlan cp : grouped) {
       List<GroupFigures.Group> groups = new ArrayList<>();
@@ -119,7 +135,8 @@ public final class GroupPass {
       for (Map.Entry<List<String>, Stats> e : measured.get(cp.name()).entrySet()) {
         Stats s = e.getValue();
         GroupPlanner.Measured m = new GroupPlanner.Measured(e.getKey(), s.usable(), s.quantiles()[0],
-            s.quantiles()[1], s.quantiles()[2], s.mean(), s.stddev());
+            s.quantiles()[1], s.quantiles()[2], s.mean(), s.stddev(),
+            mads.getOrDefault(cp.name(), Map.of()).getOrDefault(e.getKey(), Double.NaN));
         GroupFigures.Group g = GroupPlanner.limits(cp, settings.column(cp.name()).outliers(), m,
             settings.groups().minValues());
         if (g.fallback() == null && GroupPlanner.groupsFill(cp)) {
@@ -141,10 +158,16 @@ public final class GroupPass {
   }
 
   /** The names of the plan's group-wise columns that {@code passOne} left to the search, with the reasons. */
-  public static Map<String, String> searchedAfterPlan(List<ColumnPlan> columns, GroupMeasures passOne) {
+  public static Map<String, String> searchedAfterPlan(List<ColumnPlan> columns, List<String> by,
+      GroupMeasures passOne) {
     Map<String, String> out = new LinkedHashMap<>();
     for (ColumnPlan cp : columns) {
-      if (grouped(cp) && (passOne == null || !passOne.columns().containsKey(cp.name()))) {
+      if (by.contains(cp.name())) {
+        continue;
+      }
+      boolean searched = grouped(cp) && (passOne == null || !passOne.columns().containsKey(cp.name()))
+          || groupedMode(cp) && (passOne == null || !passOne.modes().containsKey(cp.name()));
+      if (searched) {
         out.put(cp.name(), passOne == null || !passOne.unsettled().containsKey(cp.name())
             ? "not measured in pass 1" : passOne.unsettled().get(cp.name()));
       }
@@ -186,14 +209,19 @@ public final class GroupPass {
       for (int j = 0; j < cols.size(); j++) {
         int at = by.size() + 2 * j;
         long n = r.getLong(at);
-        GroupFigures.Group g = n < minValues
-            ? new GroupFigures.Group(key, n, null, null, null, null, n + " values, fewer than groups.min-values = "
-                + minValues + ": the table-wide figures apply")
-            : new GroupFigures.Group(key, n, null, null, null, r.isNullAt(at + 1) ? null : r.getString(at + 1), null);
+        GroupFigures.Group g = modeGroup(key, n, r.isNullAt(at + 1) ? null : r.getString(at + 1), minValues);
         out.computeIfAbsent(cols.get(j).name(), c -> new ArrayList<>()).add(g);
       }
     }
     return out;
+  }
+
+  /** A group's mode fill, or its fallback to the table-wide mode when it has too few values. */
+  private static GroupFigures.Group modeGroup(List<String> key, long n, String mode, int minValues) {
+    return n < minValues
+        ? new GroupFigures.Group(key, n, null, null, null, null, n + " values, fewer than groups.min-values = "
+            + minValues + ": the table-wide figures apply")
+        : new GroupFigures.Group(key, n, null, null, null, mode, null);
   }
 
   /** Whether a column is treated group by group: kept, numeric, with group-wise limits or fill. */
@@ -202,28 +230,89 @@ public final class GroupPass {
         && (GroupPlanner.groupsLimits(cp) || GroupPlanner.groupsFill(cp));
   }
 
-  /** The fill values that need the values after each group's own outlier step: their mean or median. */
+  /**
+   * Each group's median absolute deviation from its own median, for columns with MAD limits: one
+   * search over the distances |x - the row's group median| (a group without a median has none),
+   * as the table-wide MAD costs one more pass.
+   */
+  private static Map<String, Map<List<String>, Double>> mads(Dataset<Row> data, List<String> by, List<ColumnPlan> cols,
+      Map<String, Map<List<String>, Stats>> measured, int maxGroups, int k) {
+    List<List<String>> keys = new ArrayList<>(measured.get(cols.get(0).name()).keySet());
+    GroupFigures index = new GroupFigures(by, METHOD, 0,
+        keys.stream().map(key -> new GroupFigures.Group(key, 0, null, null, null, null)).toList());
+    Dataset<Row> indexed = Treatments.withGroupIndex(data, index);
+    List<Column> distances = new ArrayList<>();
+    for (ColumnPlan cp : cols) {
+      List<Column> medians = new ArrayList<>(List.of(lit(null).cast("double")));
+      for (List<String> key : keys) {
+        double median = measured.get(cp.name()).get(key).quantiles()[1];
+        medians.add(Double.isFinite(median) ? lit(median) : lit(null).cast("double"));
+      }
+      Column median = functions.element_at(functions.array(medians.toArray(new Column[0])),
+          functions.col(Treatments.GROUP_INDEX).plus(1));
+      distances.add(functions.abs(Treatments.valid(cp.name(), cp.validMin(), cp.validMax()).minus(median)));
+    }
+    Map<List<String>, Stats[]> found = search(indexed, by, distances, new double[] {0.5}, maxGroups, MARGIN, k);
+    Map<String, Map<List<String>, Double>> out = new HashMap<>();
+    for (int j = 0; j < cols.size(); j++) {
+      Map<List<String>, Double> byKey = new HashMap<>();
+      for (Map.Entry<List<String>, Stats[]> e : found.entrySet()) {
+        byKey.put(e.getKey(), e.getValue()[j].quantiles()[0]);
+      }
+      out.put(cols.get(j).name(), byKey);
+    }
+    return out;
+  }
+
+  /**
+   * The fill values that need the values after each group's own outlier step: their mean or
+   * median (one search), or their mode (one grouped aggregate, Spark's deterministic mode: ties to
+   * the lowest value, as the table-wide mode).
+   */
   private static void fillsAfterOutliers(Dataset<Row> data, List<String> by, List<ColumnPlan> cols,
       Map<String, List<GroupFigures.Group>> figures, int maxGroups, int k) {
     GroupFigures any = new GroupFigures(by, METHOD, 0, figures.get(cols.get(0).name()));
     Dataset<Row> indexed = Treatments.withGroupIndex(data, any);
-    List<Column> after = cols.stream()
-        .map(cp -> Treatments.afterOutliers(cp.withGroups(new GroupFigures(by, METHOD, 0, figures.get(cp.name())))))
-        .toList();
-    Map<List<String>, Stats[]> measured = search(indexed, by, after, new double[] {0.5}, maxGroups, MARGIN, k);
-    for (int j = 0; j < cols.size(); j++) {
-      ColumnPlan cp = cols.get(j);
+    List<ColumnPlan> searched = cols.stream().filter(cp -> !cp.missing().strategy().equals("mode")).toList();
+    List<ColumnPlan> modes = cols.stream().filter(cp -> cp.missing().strategy().equals("mode")).toList();
+    Map<List<String>, Stats[]> measured = searched.isEmpty() ? Map.of()
+        : search(indexed, by, afterOutliers(searched, figures, by), new double[] {0.5}, maxGroups, MARGIN, k);
+    Map<List<String>, Row> modeRows = new HashMap<>();
+    if (!modes.isEmpty()) {
+      List<Column> aggs = afterOutliers(modes, figures, by).stream()
+          .map(v -> functions.call_function("mode", v, lit(true)).cast("double")).toList();
+      for (Row r : grouped(indexed, by, aggs, maxGroups)) {
+        modeRows.put(key(r, by.size()), r);
+      }
+    }
+    for (ColumnPlan cp : cols) {
+      boolean mode = cp.missing().strategy().equals("mode");
+      int j = mode ? modes.indexOf(cp) : searched.indexOf(cp);
       List<GroupFigures.Group> groups = figures.get(cp.name());
       for (int i = 0; i < groups.size(); i++) {
         GroupFigures.Group g = groups.get(i);
         if (g.fallback() != null || g.fill() != null) {
           continue;
         }
-        Stats s = measured.containsKey(g.key()) ? measured.get(g.key())[j] : null;
-        double fill = s == null ? Double.NaN : cp.missing().strategy().equals("mean") ? s.mean() : s.quantiles()[0];
+        double fill;
+        if (mode) {
+          Row r = modeRows.get(g.key());
+          fill = r == null || r.isNullAt(by.size() + j) ? Double.NaN : r.getDouble(by.size() + j);
+        } else {
+          Stats s = measured.containsKey(g.key()) ? measured.get(g.key())[j] : null;
+          fill = s == null ? Double.NaN : cp.missing().strategy().equals("mean") ? s.mean() : s.quantiles()[0];
+        }
         groups.set(i, GroupPlanner.withFill(g, fill));
       }
     }
+  }
+
+  /** Each column's values after its group's own outlier step (rows need the group index). */
+  private static List<Column> afterOutliers(List<ColumnPlan> cols, Map<String, List<GroupFigures.Group>> figures,
+      List<String> by) {
+    return cols.stream()
+        .map(cp -> Treatments.afterOutliers(cp.withGroups(new GroupFigures(by, METHOD, 0, figures.get(cp.name())))))
+        .toList();
   }
 
   /**

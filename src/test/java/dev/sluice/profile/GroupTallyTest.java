@@ -78,16 +78,34 @@ class GroupTallyTest {
     for (int i = 0; i < longest; i++) {
       for (Map.Entry<String, double[]> e : values.entrySet()) {
         if (!e.getKey().equals("D") && i < e.getValue().length) {
-          rows.add(RowFactory.create(e.getKey(), e.getValue()[i], i % 17 == 0 ? null : (double) (i % 5)));
+          rows.add(RowFactory.create(e.getKey(), e.getValue()[i], i % 17 == 0 ? null : (double) (i % 5),
+              crew(e.getKey(), i)));
         }
       }
     }
+    int d = 0;
     for (double v : values.getOrDefault("D", new double[0])) {
-      rows.add(RowFactory.create("D", v, 1.0));
+      rows.add(RowFactory.create("D", v, 1.0, crew("D", d++)));
     }
     StructType schema = new StructType().add("depot", DataTypes.StringType)
-        .add("dwell hours", DataTypes.DoubleType).add("doors", DataTypes.DoubleType);
+        .add("dwell hours", DataTypes.DoubleType).add("doors", DataTypes.DoubleType)
+        .add("crew", DataTypes.StringType);
     return spark.createDataFrame(rows, schema).coalesce(2);
+  }
+
+  /**
+   * The crew on duty: every eleventh missing; A mostly "south" (two in three), B mostly "west"
+   * (three in four), C and D alternate "x" and "y" (a tie, which goes to the smaller, "x").
+   */
+  private static String crew(String depot, int i) {
+    if (i % 11 == 0) {
+      return null;
+    }
+    return switch (depot) {
+      case "A" -> i % 3 == 0 ? "north" : "south";
+      case "B" -> i % 4 == 0 ? "east" : "west";
+      default -> i % 2 == 0 ? "x" : "y";
+    };
   }
 
   private static Settings settings(String... more) {
@@ -135,7 +153,7 @@ class GroupTallyTest {
     Dataset<Row> data = table(spark, values(false));
     Settings settings = settings();
     Sluice.Fit fit = Sluice.fit(data, settings, List.of());
-    assertThat(GroupPass.searchedAfterPlan(fit.plan().columns(), fit.profile().groups())).isEmpty();
+    assertThat(GroupPass.searchedAfterPlan(fit.plan().columns(), List.of("depot"), fit.profile().groups())).isEmpty();
     List<ColumnPlan> tableWide = fit.plan().columns().stream().map(cp -> cp.withGroups(null)).toList();
     List<ColumnPlan> searched = GroupPass.fit(data, tableWide, settings, fit.profile().rows(), null);
     for (String col : List.of("dwell hours", "doors")) {
@@ -151,13 +169,33 @@ class GroupTallyTest {
   }
 
   @Test
+  void passOneCountsEachGroupsModeAsSparksDeterministicModeDoes(SparkSession spark) {
+    Dataset<Row> data = table(spark, values(true));
+    // The key column treated too: filled by its mode, but never group by group.
+    Settings settings = settings("columns.depot.role=treat");
+    Sluice.Fit fit = Sluice.fit(data, settings, List.of());
+    Map<List<String>, GroupMeasures.Mode> crew = fit.profile().groups().modes().get("crew");
+    // Counted by hand from crew(): A 12,000 rows less every eleventh (1,091), mode "south".
+    assertThat(crew.get(List.of("A"))).isEqualTo(new GroupMeasures.Mode(12_000 - 1_091, "south"));
+    assertThat(crew.get(List.of("B")).mode()).isEqualTo("west");
+    assertThat(crew.get(List.of("D"))).isEqualTo(new GroupMeasures.Mode(60 - 6, "x"));
+    // Reference: Spark's mode(crew, true) per group, the aggregate used when pass 1 could not count.
+    List<ColumnPlan> tableWide = fit.plan().columns().stream().map(cp -> cp.withGroups(null)).toList();
+    List<ColumnPlan> searched = GroupPass.fit(data, tableWide, settings, fit.profile().rows(), null);
+    assertThat(figures(fit.plan().columns(), "crew")).isEqualTo(figures(searched, "crew"));
+    // The key column itself gets no group-wise figures.
+    assertThat(fit.plan().columns().stream().filter(cp -> cp.name().equals("depot")).findFirst().orElseThrow()
+        .groups()).isNull();
+  }
+
+  @Test
   void aGroupThePilotNeverSawIsSearchedAfterThePlan(SparkSession spark) {
     Map<String, double[]> values = values(true);
     Dataset<Row> data = table(spark, values);
     Sluice.Fit fit = Sluice.fit(data, settings(), List.of());
     GroupMeasures g = fit.profile().groups();
     assertThat(g.unsettled()).containsEntry("dwell hours", "a group the pilot rows did not include");
-    assertThat(GroupPass.searchedAfterPlan(fit.plan().columns(), g)).containsKey("dwell hours");
+    assertThat(GroupPass.searchedAfterPlan(fit.plan().columns(), List.of("depot"), g)).containsKey("dwell hours");
     double[] d = values.get("D");
     double iqr = r7(d, 0.75) - r7(d, 0.25);
     GroupFigures.Group gd = figures(fit.plan().columns(), "dwell hours").stream()
@@ -169,16 +207,17 @@ class GroupTallyTest {
 
   @Test
   void moreGroupsThanTheLimitStopTheTallyAndLeaveEveryColumnToTheSearch(SparkSession spark) {
-    Map<String, Role> roles = Map.of("depot", Role.KEEP, "dwell hours", Role.TREAT, "doors", Role.TREAT);
+    Map<String, Role> roles = Map.of("depot", Role.KEEP, "dwell hours", Role.TREAT, "doors", Role.TREAT,
+        "crew", Role.TREAT);
     // The pilot sees A, B and C, within the limit; the late depot D is the fourth group.
     TableProfile p = Profiler.profile(table(spark, values(true)), settings("groups.max-groups=3"), roles);
     assertThat(p.groups().columns()).isEmpty();
-    assertThat(p.groups().unsettled()).containsOnlyKeys("dwell hours", "doors")
+    assertThat(p.groups().unsettled()).containsOnlyKeys("dwell hours", "doors", "crew")
         .containsValue("more than groups.max-groups = 3 groups");
     // More groups in the pilot than the limit: no tally at all.
     TableProfile q = Profiler.profile(table(spark, values(false)), settings("groups.max-groups=2"), roles);
     assertThat(q.groups().columns()).isEmpty();
-    assertThat(q.groups().unsettled()).containsOnlyKeys("dwell hours", "doors");
+    assertThat(q.groups().unsettled()).containsOnlyKeys("dwell hours", "doors", "crew");
   }
 
   @Test
@@ -194,7 +233,7 @@ class GroupTallyTest {
       keys[i] = 7;
     }
     NumericSteps[] valid = {NumericSteps.validity(null, null)};
-    GroupTally tally = GroupTally.plan(layout, new int[] {0}, valid, new RowScan.Pilot(new double[][] {pilot}, keys),
+    GroupTally tally = GroupTally.plan(layout, new int[] {0}, valid, new int[0], new RowScan.Pilot(new double[][] {pilot}, keys),
         1_000_000, 10, 8_000_000).orElseThrow();
     // The pass then finds depot 7's values far above its windows; depot 8, unseen, has 10 values.
     GroupTally part1 = tally.emptyCopy();
@@ -205,7 +244,7 @@ class GroupTallyTest {
     for (int i = 0; i < 10; i++) {
       part2.add(row(layout, 8, "eight", i));
     }
-    GroupMeasures g = part1.merge(part2).finish(List.of("depot"), new String[] {"dwell hours"}, 50);
+    GroupMeasures g = part1.merge(part2).finish(List.of("depot"), new String[] {"dwell hours"}, new String[0], 50);
     assertThat(g.columns()).isEmpty();
     assertThat(g.unsettled()).containsEntry("dwell hours", "a group's windows missed its quartiles");
     // Without depot 7's values beyond the windows: the small unseen group needs no quartiles.
@@ -216,7 +255,7 @@ class GroupTallyTest {
     for (int i = 0; i < 10; i++) {
       fits.add(row(layout, 8, "eight", i));
     }
-    GroupMeasures ok = fits.finish(List.of("depot"), new String[] {"dwell hours"}, 50);
+    GroupMeasures ok = fits.finish(List.of("depot"), new String[] {"dwell hours"}, new String[0], 50);
     double[] seven = new double[1_000];
     Arrays.setAll(seven, i -> 2.0 * i);
     assertThat(ok.columns().get("dwell hours").get(List.of("seven")).quartiles())

@@ -151,6 +151,52 @@ class GroupWiseTest {
   }
 
   @Test
+  void madLimitsComeFromEachGroupsOwnMedianAndMad(SparkSession spark) {
+    ColumnPlan dwell = fit(table(spark), "defaults.outliers.method=mad").column("dwell hours").orElseThrow();
+    for (String depot : List.of("D1", "D2")) {
+      double[] v = VALUES.get(depot);
+      double median = r7(v, 0.5);
+      double mad = r7(Arrays.stream(v).map(x -> Math.abs(x - median)).toArray(), 0.5);
+      GroupFigures.Group g = group(dwell, depot);
+      // Iglewicz and Hoaglin's modified z-score 0.6745 (x - median) / MAD, limit 3.5 (the default):
+      // the limits are median -/+ 3.5 MAD / 0.6745 (the plan keeps 12 significant digits).
+      assertThat(g.fallback()).isNull();
+      assertThat(g.lower()).as(depot).isCloseTo(median - 3.5 * mad / 0.6745, within(1e-7));
+      assertThat(g.upper()).as(depot).isCloseTo(median + 3.5 * mad / 0.6745, within(1e-7));
+    }
+    assertThat(group(dwell, "D1").upper()).isLessThan(400.0);
+    assertThat(group(dwell, "D3").fallback()).startsWith("10 usable values");
+  }
+
+  @Test
+  void aNumericModeFillIsEachGroupsOwnModeAfterItsOutlierStep(SparkSession spark) {
+    // Doors open per hour, our own scenario: E has 5 x 20, 7 x 25, 9 x 15 (mode 7); F has 2 x 30
+    // and 3 x 30 (a tie: the lowest, 2, as the table-wide mode); each with four missing.
+    List<Row> rows = new ArrayList<>();
+    int[][] e = {{5, 20}, {7, 25}, {9, 15}};
+    int[][] f = {{2, 30}, {3, 30}};
+    for (Object[] depot : new Object[][] {{"E", e}, {"F", f}}) {
+      for (int[] vc : (int[][]) depot[1]) {
+        for (int i = 0; i < vc[1]; i++) {
+          rows.add(RowFactory.create(depot[0], (double) vc[0]));
+        }
+      }
+      for (int i = 0; i < 4; i++) {
+        rows.add(RowFactory.create(depot[0], null));
+      }
+    }
+    StructType schema = new StructType().add("depot", DataTypes.StringType).add("doors", DataTypes.DoubleType);
+    Plan plan = Sluice.fit(spark.createDataFrame(rows, schema), SettingsLoader.load(Optional.empty(),
+        List.of("groups.by=[depot]", "columns.depot.role=keep", "collinearity.enabled=false",
+            "defaults.missing.strategy=mode", "defaults.outliers.method=none")), List.of()).plan();
+    ColumnPlan doors = plan.column("doors").orElseThrow();
+    assertThat(group(doors, "E").fill()).isEqualTo(7.0);
+    assertThat(group(doors, "F").fill()).isEqualTo(2.0);
+    // Table-wide: 2 x 30, 3 x 30, 5 x 20, 7 x 25, 9 x 15: a tie of 2 and 3, the lowest.
+    assertThat(doors.missing().fillNumber()).isEqualTo(2.0);
+  }
+
+  @Test
   void aCategoricalColumnIsFilledWithItsGroupsOwnMode(SparkSession spark) {
     Dataset<Row> data = table(spark);
     Plan plan = fit(data);
