@@ -23,8 +23,17 @@ public record GroupMeasures(List<String> by, Map<String, Map<List<String>, Measu
    * One group's usable values of one column.
    *
    * @param quartiles Q1, median, Q3 (type 7); NaN where the group has too few values to need them
+   * @param windows pass 1's windows over the group's values, or null (a group the pilot did not
+   *     see): what figures after the group's outlier step are read off
+   * @param regions the moments of the values in each region of those windows, or null
    */
-  public record Measure(long usable, double mean, double stddev, double[] quartiles) {}
+  public record Measure(long usable, double mean, double stddev, double[] quartiles,
+      dev.sluice.stats.OrderWindows windows, dev.sluice.stats.ScaledMoments[] regions) {
+    /** Without windows. */
+    public Measure(long usable, double mean, double stddev, double[] quartiles) {
+      this(usable, mean, stddev, quartiles, null, null);
+    }
+  }
 
   /**
    * One group's values of one categorical column.

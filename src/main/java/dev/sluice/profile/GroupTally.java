@@ -64,8 +64,10 @@ final class GroupTally implements Serializable {
   private final int[] textAt;
   private final int[] textHashAt;
   private final int textLimit;
-  /** Per group hash the pilot saw, the first windows of each column. */
+  /** Per group hash the pilot saw, the first windows of each column (null: none). */
   private final Map<Long, OrderWindows[]> planned;
+  /** Columns given no windows, because those of all their groups would pass the memory budget. */
+  private final boolean[] skipped;
 
   // State of one part: open addressing from hash to slot, then per slot.
   private long[] table;
@@ -74,14 +76,15 @@ final class GroupTally implements Serializable {
   private long[] hashes;
   private String[][] keys;
   private OrderWindows[][] windows;
-  private ScaledMoments[][] moments;
+  /** Per slot and column, the moments of the values in each region of its windows (one without). */
+  private ScaledMoments[][][] moments;
   private long[][] present;
   private HashedCounts<UTF8String>[][] texts;
   /** More groups than maxGroups were seen: the tally stopped. */
   boolean overflowed;
 
   private GroupTally(int keyAt, int keyTextAt, int[] cols, NumericSteps[] validity, int maxGroups,
-      int[] textAt, int[] textHashAt, int textLimit, Map<Long, OrderWindows[]> planned) {
+      int[] textAt, int[] textHashAt, int textLimit, Map<Long, OrderWindows[]> planned, boolean[] skipped) {
     this.keyAt = keyAt;
     this.keyTextAt = keyTextAt;
     this.cols = cols;
@@ -91,6 +94,7 @@ final class GroupTally implements Serializable {
     this.textHashAt = textHashAt;
     this.textLimit = textLimit;
     this.planned = planned;
+    this.skipped = skipped;
     int capacity = Integer.highestOneBit(Math.max(16, 4 * (maxGroups + 1)) - 1) << 1;
     this.table = new long[capacity];
     this.tableSlot = new int[capacity];
@@ -98,7 +102,7 @@ final class GroupTally implements Serializable {
     this.hashes = new long[8];
     this.keys = new String[8][];
     this.windows = new OrderWindows[8][];
-    this.moments = new ScaledMoments[8][];
+    this.moments = new ScaledMoments[8][][];
     this.present = new long[8][];
     this.texts = newTexts(8);
   }
@@ -110,17 +114,21 @@ final class GroupTally implements Serializable {
 
   /**
    * The tally's windows, placed by the pilot: for each group the pilot saw and each column, the
-   * quartile windows of {@link RankSearch#firstPlan} at {@value #BRACKET_ERRORS} standard errors.
-   * Empty when their expected held values pass {@code budget}, or the pilot saw more than
-   * {@code maxGroups} groups: the group-wise figures are then all searched after the plan.
+   * quartile windows of {@link RankSearch#firstPlan} at {@value #BRACKET_ERRORS} standard errors,
+   * and for a column with Tukey fences ({@code iqrK} finite) the bands where the group's fences can
+   * fall, so that the values after the group's capping or removal can be read off too. Columns
+   * whose windows would pass {@code budget} values in all (taken in order) get none. Empty when
+   * the pilot saw more than {@code maxGroups} groups: the group-wise figures are then all searched
+   * after the plan.
    *
    * @param cols measured columns (projection positions) to tally
+   * @param iqrK per column, its Tukey k, or NaN for no fence bands
    * @param text categorical columns (table positions) whose group modes to tally
    * @param pilot the pilot's values per measured column, and its key hashes (empty: no pilot, the
    *     table is small enough that one window holds each group's values)
    * @param rows the table's rows
    */
-  static java.util.Optional<GroupTally> plan(ProfileLayout layout, int[] cols, NumericSteps[] validity,
+  static java.util.Optional<GroupTally> plan(ProfileLayout layout, int[] cols, NumericSteps[] validity, double[] iqrK,
       int[] text, RowScan.Pilot pilot, long rows, int maxGroups, int budget) {
     Map<Long, OrderWindows[]> planned = new HashMap<>();
     long[] keys = pilot.keys();
@@ -139,12 +147,13 @@ final class GroupTally implements Serializable {
     }
     int textLimit = (int) Math.max(MIN_HELD, Math.min(ProfileAccumulator.COUNTED_VALUES,
         TEXT_BUDGET / Math.max(1L, (long) Math.max(1, rowsOf.size()) * Math.max(1, text.length))));
+    boolean[] skipped = new boolean[cols.length];
     if (keys.length == 0) {
       // No pilot: the table holds at most the budget's values per window; each group's window holds all.
       return java.util.Optional.of(new GroupTally(layout.keyAt, layout.keyTextAt, cols, validity, maxGroups,
-          textAt, textHashAt, textLimit, planned));
+          textAt, textHashAt, textLimit, planned, skipped));
     }
-    long held = 0;
+    long[] held = new long[cols.length];
     for (Map.Entry<Long, List<Integer>> e : rowsOf.entrySet()) {
       OrderWindows[] w = new OrderWindows[cols.length];
       for (int c = 0; c < cols.length; c++) {
@@ -162,21 +171,74 @@ final class GroupTally implements Serializable {
         double d = n == 0 ? 1.0 : Math.min(1.0, BRACKET_ERRORS * 0.5 / Math.sqrt(n) + 2.0 / n);
         long perWindow = (long) Math.ceil(2 * d * expected);
         int cap = (int) Math.min(Integer.MAX_VALUE - 8, Math.max(MIN_HELD, HEADROOM * perWindow));
-        w[c] = new RankSearch(QUARTILES, cap, BRACKET_ERRORS).firstPlan(sorted, expected);
-        held += Math.min(expected, QUARTILES.length * perWindow);
+        List<double[]> bands = Double.isFinite(iqrK[c]) ? fenceBands(sorted, iqrK[c], expected) : List.of();
+        w[c] = new RankSearch(QUARTILES, cap, BRACKET_ERRORS).firstPlan(sorted, expected, bands);
+        long inBands = 0;
+        for (double[] b : bands) {
+          inBands += Math.round((double) expected * between(sorted, b[0], b[1]) / Math.max(1, n));
+        }
+        held[c] += Math.min(expected, QUARTILES.length * perWindow + inBands);
       }
       planned.put(e.getKey(), w);
     }
-    if (held > budget) {
-      return java.util.Optional.empty();
+    long total = 0;
+    for (int c = 0; c < cols.length; c++) {
+      total += held[c];
+      if (total > budget) {
+        skipped[c] = true;
+        total -= held[c];
+        for (OrderWindows[] w : planned.values()) {
+          w[c] = null;
+        }
+      }
     }
     return java.util.Optional.of(new GroupTally(layout.keyAt, layout.keyTextAt, cols, validity, maxGroups,
-        textAt, textHashAt, textLimit, planned));
+        textAt, textHashAt, textLimit, planned, skipped));
+  }
+
+  /**
+   * The two ranges where a group's Tukey fences with multiplier k can fall while its quartiles lie
+   * in their pilot brackets (as the table-wide search's bands); none when a bracket is unbounded
+   * or the IQR could be zero.
+   */
+  private static List<double[]> fenceBands(double[] sorted, double k, long expected) {
+    if (sorted.length == 0) {
+      return List.of();
+    }
+    double[] q1 = RankSearch.bracket(sorted, 0.25, expected, 1, BRACKET_ERRORS);
+    double[] q3 = RankSearch.bracket(sorted, 0.75, expected, 1, BRACKET_ERRORS);
+    if (!Double.isFinite(q1[0]) || !Double.isFinite(q3[1]) || !(q1[1] < q3[0])) {
+      return List.of();
+    }
+    double[] r = dev.sluice.stats.Fences.tukeyRange(q1[0], q1[1], q3[0], q3[1], k);
+    return List.of(new double[] {r[0], r[1]}, new double[] {r[2], r[3]});
+  }
+
+  /** How many of the sorted values lie in [low, high]. */
+  private static int between(double[] sorted, double low, double high) {
+    int from = lowerBound(sorted, low);
+    int to = lowerBound(sorted, Math.nextUp(high));
+    return Math.max(0, to - from);
+  }
+
+  private static int lowerBound(double[] sorted, double x) {
+    int lo = 0;
+    int hi = sorted.length;
+    while (lo < hi) {
+      int mid = (lo + hi) >>> 1;
+      if (sorted[mid] < x) {
+        lo = mid + 1;
+      } else {
+        hi = mid;
+      }
+    }
+    return lo;
   }
 
   /** An empty tally over the same windows, for one partition. */
   GroupTally emptyCopy() {
-    return new GroupTally(keyAt, keyTextAt, cols, validity, maxGroups, textAt, textHashAt, textLimit, planned);
+    return new GroupTally(keyAt, keyTextAt, cols, validity, maxGroups, textAt, textHashAt, textLimit, planned,
+        skipped);
   }
 
   /** One row of the full projection. */
@@ -189,7 +251,7 @@ final class GroupTally implements Serializable {
       return;
     }
     OrderWindows[] w = windows[s];
-    ScaledMoments[] m = moments[s];
+    ScaledMoments[][] m = moments[s];
     for (int c = 0; c < cols.length; c++) {
       int j = cols[c];
       if (row.isNullAt(j)) {
@@ -197,10 +259,7 @@ final class GroupTally implements Serializable {
       }
       double x = validity[c].valid(row.getDouble(j));
       if (!Double.isNaN(x)) {
-        m[c].add(x);
-        if (w[c] != null) {
-          w[c].add(x);
-        }
+        m[c][w[c] == null ? 0 : w[c].add(x)].add(x);
       }
     }
     long[] n = present[s];
@@ -241,7 +300,7 @@ final class GroupTally implements Serializable {
     return at;
   }
 
-  private int insert(int at, long hash, String[] key, OrderWindows[] w, ScaledMoments[] m, long[] n,
+  private int insert(int at, long hash, String[] key, OrderWindows[] w, ScaledMoments[][] m, long[] n,
       HashedCounts<UTF8String>[] counts) {
     if (slots == maxGroups) {
       overflowed = true;
@@ -264,10 +323,14 @@ final class GroupTally implements Serializable {
     if (w == null) {
       OrderWindows[] template = planned.get(hash);
       w = new OrderWindows[cols.length];
-      m = new ScaledMoments[cols.length];
+      m = new ScaledMoments[cols.length][];
       for (int c = 0; c < cols.length; c++) {
-        w[c] = template != null ? template[c].emptyCopy() : planned.isEmpty() ? everything() : null;
-        m[c] = new ScaledMoments();
+        w[c] = template != null ? (template[c] == null ? null : template[c].emptyCopy())
+            : planned.isEmpty() && !skipped[c] ? everything() : null;
+        m[c] = new ScaledMoments[w[c] == null ? 1 : w[c].regions()];
+        for (int r = 0; r < m[c].length; r++) {
+          m[c][r] = new ScaledMoments();
+        }
       }
       n = new long[textAt.length];
       counts = newCounts(textAt.length, textLimit);
@@ -309,7 +372,9 @@ final class GroupTally implements Serializable {
         texts[s][x].merge(o.texts[t][x]);
       }
       for (int c = 0; c < cols.length; c++) {
-        moments[s][c].merge(o.moments[t][c]);
+        for (int r = 0; r < moments[s][c].length; r++) {
+          moments[s][c][r].merge(o.moments[t][c][r]);
+        }
         if (windows[s][c] != null) {
           windows[s][c].merge(o.windows[t][c]);
         }
@@ -347,20 +412,25 @@ final class GroupTally implements Serializable {
       Map<List<String>, GroupMeasures.Measure> groups = new LinkedHashMap<>();
       String missed = null;
       for (int s : order) {
-        ScaledMoments m = moments[s][c];
+        ScaledMoments m = new ScaledMoments();
+        for (ScaledMoments r : moments[s][c]) {
+          m.merge(r);
+        }
         double[] q = new double[QUARTILES.length];
         Arrays.fill(q, Double.NaN);
+        OrderWindows w = windows[s][c];
         if (m.count() >= minValues) {
-          OrderWindows w = windows[s][c];
           // A search only reads the merged windows here: its own size limit plays no part.
           RankSearch search = new RankSearch(QUARTILES, 1);
           if (w != null && search.absorb(w)) {
             q = search.quantiles();
           } else {
-            missed = w == null ? "a group the pilot rows did not include" : "a group's windows missed its quartiles";
+            missed = skipped[c] ? "its groups' windows would pass quantiles.max-held-values"
+                : w == null ? "a group the pilot rows did not include" : "a group's windows missed its quartiles";
           }
         }
-        groups.put(Arrays.asList(keys[s]), new GroupMeasures.Measure(m.count(), m.mean(), m.stddev(), q));
+        groups.put(Arrays.asList(keys[s]), new GroupMeasures.Measure(m.count(), m.mean(), m.stddev(), q,
+            w, w == null ? null : moments[s][c]));
       }
       if (missed == null) {
         settled.put(names[c], groups);

@@ -198,8 +198,13 @@ public final class Profiler {
       }
     }
     int[] text = groupedText.stream().mapToInt(name -> java.util.Arrays.asList(layout.names).indexOf(name)).toArray();
+    double[] iqrK = new double[cols.size()];
+    for (int c = 0; c < iqrK.length; c++) {
+      ColumnSettings cs = settings.column(layout.names[measured[cols.get(c)]]);
+      iqrK[c] = cs.outliers().method() == OutlierMethod.IQR ? cs.outliers().iqrK() : Double.NaN;
+    }
     return GroupTally.plan(layout, cols.stream().mapToInt(Integer::intValue).toArray(),
-        steps.toArray(new NumericSteps[0]), text, pilot, rows, settings.groups().maxGroups(),
+        steps.toArray(new NumericSteps[0]), iqrK, text, pilot, rows, settings.groups().maxGroups(),
         settings.quantiles().maxHeldValues()).orElse(null);
   }
 

@@ -13,8 +13,12 @@ import dev.sluice.io.Names;
 import dev.sluice.plan.ColumnPlan;
 import dev.sluice.plan.GroupFigures;
 import dev.sluice.plan.GroupPlanner;
+import dev.sluice.plan.OutlierPlan;
 import dev.sluice.profile.GroupMeasures;
+import dev.sluice.stats.NumericSteps;
 import dev.sluice.stats.Quantiles;
+import dev.sluice.stats.RankSearch;
+import dev.sluice.stats.ScaledMoments;
 import java.util.ArrayList;
 import java.util.Arrays;
 import java.util.Comparator;
@@ -141,6 +145,9 @@ public final class GroupPass {
             settings.groups().minValues());
         if (g.fallback() == null && GroupPlanner.groupsFill(cp)) {
           double fill = GroupPlanner.fillFromFirst(cp, g, m);
+          if (Double.isNaN(fill) && passOne != null && passOne.columns().containsKey(cp.name())) {
+            fill = fillFromPassOne(cp, g, passOne.columns().get(cp.name()).get(e.getKey()));
+          }
           needsSecond |= Double.isNaN(fill);
           g = GroupPlanner.withFill(g, fill);
         }
@@ -155,6 +162,43 @@ public final class GroupPass {
       fillsAfterOutliers(data, by, second, figures, maxGroups, sketchSize(rows, second.size(), maxHeld));
     }
     return withFigures(columns, figures, by);
+  }
+
+  /**
+   * A group's median or mean fill after its own outlier step, read off pass 1's windows and region
+   * moments of the group (as {@link PassOneFinish} does table-wide): exact when each of the group's
+   * limits lies in a window whose values pass 1 kept, else NaN (the search after the plan
+   * measures it).
+   */
+  public static double fillFromPassOne(ColumnPlan cp, GroupFigures.Group g, GroupMeasures.Measure m) {
+    String strategy = cp.missing().strategy();
+    if (m == null || m.windows() == null || !(strategy.equals("mean") || strategy.equals("median"))) {
+      return Double.NaN;
+    }
+    OutlierPlan table = cp.outliers();
+    OutlierPlan own = new OutlierPlan(table.method(), table.direction(), table.action(), g.lower(), g.upper(),
+        null, null, null, null, table.reason());
+    NumericSteps steps = own.steps(cp.validMin(), cp.validMax());
+    ScaledMoments after = PassOneFinish.treatedMoments(m.windows(), m.regions(), steps, own);
+    if (after == null || after.count() == 0) {
+      return Double.NaN;
+    }
+    if (strategy.equals("mean")) {
+      return after.mean();
+    }
+    RankSearch search = new RankSearch(QUARTILES, 1);
+    if (!search.absorb(m.windows())) {
+      return Double.NaN;
+    }
+    if (!steps.removes()) {
+      return search.quantiles(steps::afterOutliers)[1];
+    }
+    long removedBelow = own.lower() == null ? 0 : m.windows().countBelow(own.lower(), false);
+    if (removedBelow < 0) {
+      return Double.NaN;
+    }
+    return PassOneFinish.afterRemoval(m.windows(), search, removedBelow, after.count()).map(q -> q[1])
+        .orElse(Double.NaN);
   }
 
   /** The names of the plan's group-wise columns that {@code passOne} left to the search, with the reasons. */

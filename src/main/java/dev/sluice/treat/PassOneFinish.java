@@ -130,7 +130,7 @@ final class PassOneFinish {
    * alike, and one by one the values of the windows holding a limit. Null when a limit is not
    * inside a window whose values were kept.
    */
-  private static ScaledMoments treatedMoments(OrderWindows w, ScaledMoments[] regions,
+  static ScaledMoments treatedMoments(OrderWindows w, ScaledMoments[] regions,
       NumericSteps steps, OutlierPlan o) {
     boolean changes = steps.removes() || o.action().equals("cap");
     if (!changes || !o.active()) {
@@ -180,7 +180,7 @@ final class PassOneFinish {
    * Type 7 quartiles of the values left after removal: the kept values are the order statistics
    * from rank removedBelow + 1 on, so their quartiles are order statistics at shifted ranks.
    */
-  private static Optional<double[]> afterRemoval(OrderWindows first, RankSearch search,
+  static Optional<double[]> afterRemoval(OrderWindows first, RankSearch search,
       long removedBelow, long kept) {
     double[] out = new double[3];
     double[] ps = {0.25, 0.5, 0.75};

@@ -54,13 +54,21 @@ class GroupTallyTest {
    */
   private static Map<String, double[]> values(boolean late) {
     Map<String, double[]> out = new LinkedHashMap<>();
-    out.put("A", spread(12_000, 10_007, 0.1, 0));
-    out.put("B", spread(8_000, 8_009, 0.25, 500));
+    out.put("A", planted(spread(12_000, 10_007, 0.1, 0), 9_000));
+    out.put("B", planted(spread(8_000, 8_009, 0.25, 500), -3_000));
     out.put("C", spread(30, 31, 3, 40));
     if (late) {
       out.put("D", spread(60, 61, 2, 5_000));
     }
     return out;
+  }
+
+  /** The values with every 1,000th replaced by an extreme: at + (i / 1000). */
+  private static double[] planted(double[] v, double at) {
+    for (int i = 500; i < v.length; i += 1_000) {
+      v[i] = at + i / 1_000;
+    }
+    return v;
   }
 
   /** n values ((i * 7919) mod m) * step + from: a deterministic scatter with ties where n > m. */
@@ -169,6 +177,37 @@ class GroupTallyTest {
   }
 
   @Test
+  void fillsAfterEachGroupsCappingOrRemovalAreReadOffPassOnesWindows(SparkSession spark) {
+    Dataset<Row> data = table(spark, values(false));
+    for (String action : List.of("cap", "set-missing")) {
+      for (String strategy : List.of("mean", "median")) {
+        Settings settings = settings("defaults.outliers.action=" + action, "defaults.missing.strategy=" + strategy);
+        Sluice.Fit fit = Sluice.fit(data, settings, List.of());
+        ColumnPlan dwell = fit.plan().column("dwell hours").orElseThrow();
+        for (String depot : List.of("A", "B")) {
+          GroupFigures.Group g = figures(fit.plan().columns(), "dwell hours").stream()
+              .filter(x -> x.key().equals(List.of(depot))).findFirst().orElseThrow();
+          double[] v = values(false).get(depot);
+          // The group's values after its own step: capped at, or removed beyond, its fences.
+          double[] after = action.equals("cap")
+              ? Arrays.stream(v).map(x -> Math.max(g.lower(), Math.min(g.upper(), x))).toArray()
+              : Arrays.stream(v).filter(x -> x >= g.lower() && x <= g.upper()).toArray();
+          // Exactly the planted extremes lie beyond the group's fences.
+          assertThat(Arrays.stream(v).filter(x -> x < g.lower() || x > g.upper()).count()).isEqualTo(v.length / 1_000);
+          double expected = strategy.equals("mean") ? new DescriptiveStatistics(after).getMean() : r7(after, 0.5);
+          String what = action + " " + strategy + " " + depot;
+          // Pass 1 alone gives it (the search after the plan is not needed) ...
+          double fromPassOne = GroupPass.fillFromPassOne(dwell, g,
+              fit.profile().groups().columns().get("dwell hours").get(List.of(depot)));
+          assertThat(fromPassOne).as(what).isCloseTo(expected, within(1e-9 * Math.abs(expected)));
+          // ... and the plan holds it (12 significant digits).
+          assertThat(g.fill()).as(what).isCloseTo(expected, within(1e-9 * Math.abs(expected)));
+        }
+      }
+    }
+  }
+
+  @Test
   void passOneCountsEachGroupsModeAsSparksDeterministicModeDoes(SparkSession spark) {
     Dataset<Row> data = table(spark, values(true));
     // The key column treated too: filled by its mode, but never group by group.
@@ -214,6 +253,11 @@ class GroupTallyTest {
     assertThat(p.groups().columns()).isEmpty();
     assertThat(p.groups().unsettled()).containsOnlyKeys("dwell hours", "doors", "crew")
         .containsValue("more than groups.max-groups = 3 groups");
+    // Room for the windows of one column only: the first in table order gets them.
+    TableProfile r = Profiler.profile(table(spark, values(false)), settings("quantiles.max-held-values=12000"), roles);
+    assertThat(r.groups().columns()).containsOnlyKeys("dwell hours");
+    assertThat(r.groups().unsettled()).containsExactly(
+        Map.entry("doors", "its groups' windows would pass quantiles.max-held-values"));
     // More groups in the pilot than the limit: no tally at all.
     TableProfile q = Profiler.profile(table(spark, values(false)), settings("groups.max-groups=2"), roles);
     assertThat(q.groups().columns()).isEmpty();
@@ -233,7 +277,7 @@ class GroupTallyTest {
       keys[i] = 7;
     }
     NumericSteps[] valid = {NumericSteps.validity(null, null)};
-    GroupTally tally = GroupTally.plan(layout, new int[] {0}, valid, new int[0], new RowScan.Pilot(new double[][] {pilot}, keys),
+    GroupTally tally = GroupTally.plan(layout, new int[] {0}, valid, new double[] {Double.NaN}, new int[0], new RowScan.Pilot(new double[][] {pilot}, keys),
         1_000_000, 10, 8_000_000).orElseThrow();
     // The pass then finds depot 7's values far above its windows; depot 8, unseen, has 10 values.
     GroupTally part1 = tally.emptyCopy();
