@@ -197,8 +197,8 @@ public final class GroupPass {
     if (removedBelow < 0) {
       return Double.NaN;
     }
-    return PassOneFinish.afterRemoval(m.windows(), search, removedBelow, after.count()).map(q -> q[1])
-        .orElse(Double.NaN);
+    return PassOneFinish.afterRemoval(m.windows(), search, removedBelow, after.count(), new double[] {0.5})
+        .map(q -> q[0]).orElse(Double.NaN);
   }
 
   /** The names of the plan's group-wise columns that {@code passOne} left to the search, with the reasons. */

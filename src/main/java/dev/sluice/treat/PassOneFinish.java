@@ -182,9 +182,14 @@ final class PassOneFinish {
    */
   static Optional<double[]> afterRemoval(OrderWindows first, RankSearch search,
       long removedBelow, long kept) {
-    double[] out = new double[3];
-    double[] ps = {0.25, 0.5, 0.75};
-    for (int i = 0; i < 3; i++) {
+    return afterRemoval(first, search, removedBelow, kept, new double[] {0.25, 0.5, 0.75});
+  }
+
+  /** As {@link #afterRemoval(OrderWindows, RankSearch, long, long)}, the type 7 quantiles at {@code ps}. */
+  static Optional<double[]> afterRemoval(OrderWindows first, RankSearch search,
+      long removedBelow, long kept, double[] ps) {
+    double[] out = new double[ps.length];
+    for (int i = 0; i < ps.length; i++) {
       double h = (kept - 1) * ps[i];
       long below = (long) Math.floor(h);
       OptionalDouble a = orderStatistic(first, search, removedBelow + below + 1);
