@@ -26,12 +26,19 @@ public record GroupMeasures(List<String> by, Map<String, Map<List<String>, Measu
    * @param windows pass 1's windows over the group's values, or null (a group the pilot did not
    *     see): what figures after the group's outlier step are read off
    * @param regions the moments of the values in each region of those windows, or null
+   * @param mad the median absolute deviation from the group's median, for a column with MAD
+   *     limits (found in the pass that finds the table-wide MAD); NaN when not found
    */
   public record Measure(long usable, double mean, double stddev, double[] quartiles,
-      dev.sluice.stats.OrderWindows windows, dev.sluice.stats.ScaledMoments[] regions) {
+      dev.sluice.stats.OrderWindows windows, dev.sluice.stats.ScaledMoments[] regions, double mad) {
     /** Without windows. */
     public Measure(long usable, double mean, double stddev, double[] quartiles) {
-      this(usable, mean, stddev, quartiles, null, null);
+      this(usable, mean, stddev, quartiles, null, null, Double.NaN);
+    }
+
+    /** The same figures with the group's MAD. */
+    Measure withMad(double value) {
+      return new Measure(usable, mean, stddev, quartiles, windows, regions, value);
     }
   }
 

@@ -430,7 +430,7 @@ final class GroupTally implements Serializable {
           }
         }
         groups.put(Arrays.asList(keys[s]), new GroupMeasures.Measure(m.count(), m.mean(), m.stddev(), q,
-            w, w == null ? null : moments[s][c]));
+            w, w == null ? null : moments[s][c], Double.NaN));
       }
       if (missed == null) {
         settled.put(names[c], groups);
@@ -454,6 +454,15 @@ final class GroupTally implements Serializable {
       }
     }
     return new GroupMeasures(by, settled, modes, unsettled);
+  }
+
+  /** Each group's key hash, by key (of the merged tally). */
+  Map<List<String>, Long> hashes() {
+    Map<List<String>, Long> out = new HashMap<>();
+    for (int s = 0; s < slots; s++) {
+      out.put(Arrays.asList(keys[s]), hashes[s]);
+    }
+    return out;
   }
 
   /** Keys in order, a null value first (as the group search orders them). */

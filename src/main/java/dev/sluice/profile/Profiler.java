@@ -108,7 +108,16 @@ public final class Profiler {
       targets.add(new SearchPass.Target(j, validity[j], false, Double.NaN));
     }
     SearchPass.complete(numeric, targets, searches, List.of());
-    double[] mad = mads(numeric, layout, measured, settings, validity, searches, pilot, rows);
+    List<String> all = new ArrayList<>(grouped);
+    all.addAll(groupedText);
+    GroupMeasures groups = all.isEmpty() ? null
+        : tally == null ? GroupMeasures.none(settings.groups().by(), all,
+            "the pilot showed more groups, or wider windows, than pass 1 holds")
+        : acc.groups.finish(settings.groups().by(), grouped.toArray(new String[0]),
+            groupedText.toArray(new String[0]), settings.groups().minValues());
+    GroupKeys keys = tally == null ? null : new GroupKeys(groups, acc.groups.hashes(), taken.keys(), measured.length,
+        settings.groups().minValues());
+    double[] mad = mads(numeric, layout, measured, settings, validity, searches, pilot, rows, keys);
     Map<String, double[]> pilotByName = new LinkedHashMap<>();
     Map<String, RankSearch> quartiles = new LinkedHashMap<>();
     for (int j = 0; j < measured.length; j++) {
@@ -124,13 +133,6 @@ public final class Profiler {
         acc.early == null ? null : acc.early.comoments,
         acc.early == null ? null : acc.early.actions(), acc.early == null ? null : acc.early.bands(),
         kept.isEmpty() ? null : kept.get(0), acc.early != null && acc.early.overflowed);
-    List<String> all = new ArrayList<>(grouped);
-    all.addAll(groupedText);
-    GroupMeasures groups = all.isEmpty() ? null
-        : tally == null ? GroupMeasures.none(settings.groups().by(), all,
-            "the pilot showed more groups, or wider windows, than pass 1 holds")
-        : acc.groups.finish(settings.groups().by(), grouped.toArray(new String[0]),
-            groupedText.toArray(new String[0]), settings.groups().minValues());
     return new TableProfile(acc.rows, columns(data.sparkSession(), layout, acc, quartiles, mad),
         sampleNames, acc.sample, pilotByName, quartiles, share, acc.trackedNames(), acc.together, groups);
   }
@@ -284,8 +286,20 @@ public final class Profiler {
    * The MAD of every treated column whose outlier method is mad: one more pass, shared, over the
    * distances of the valid values from the column's exact median. NaN for the other columns.
    */
+  /**
+   * What the MAD pass needs to find each group's MAD too: pass 1's group figures (whose MADs it
+   * fills in), each group's key hash, the pilot rows' key hashes, where the pass reads a row's key,
+   * and the fewest values a group needs for figures of its own.
+   */
+  private record GroupKeys(GroupMeasures groups, Map<List<String>, Long> hashes, long[] pilotKeys, int keyAt,
+      int minValues) {}
+
+  /** Most (group, column) MAD searches the MAD pass takes on; more are left to the search after the plan. */
+  static final int MAX_GROUP_TARGETS = 2_000;
+
   private static double[] mads(JavaRDD<InternalRow> numeric, ProfileLayout layout, int[] measured,
-      Settings settings, NumericSteps[] validity, List<RankSearch> quartiles, double[][] pilot, long rows) {
+      Settings settings, NumericSteps[] validity, List<RankSearch> quartiles, double[][] pilot, long rows,
+      GroupKeys keys) {
     double[] out = new double[measured.length];
     java.util.Arrays.fill(out, Double.NaN);
     List<Integer> cols = new ArrayList<>();
@@ -297,10 +311,48 @@ public final class Profiler {
         cols.add(j);
       }
     }
-    int perWindow = settings.quantiles().heldPerWindow(cols.size());
+    // Each group's MAD, from the distances to the group's own median, in the same pass.
+    List<SearchPass.Target> groupTargets = new ArrayList<>();
+    List<List<String>> groupKeys = new ArrayList<>();
+    List<String> groupColumns = new ArrayList<>();
+    for (int j : cols) {
+      String name = layout.names[measured[j]];
+      Map<List<String>, GroupMeasures.Measure> byKey = keys == null ? null : keys.groups().columns().get(name);
+      if (byKey == null) {
+        continue;
+      }
+      byKey.forEach((key, m) -> {
+        if (m.usable() >= keys.minValues() && !Double.isNaN(m.quartiles()[1])) {
+          groupTargets.add(new SearchPass.Target(j, validity[j], false, m.quartiles()[1], keys.keyAt(),
+              keys.hashes().get(key)));
+          groupKeys.add(key);
+          groupColumns.add(name);
+        }
+      });
+    }
+    if (groupTargets.size() > MAX_GROUP_TARGETS) {
+      groupTargets.clear();
+    }
+    int perWindow = settings.quantiles().heldPerWindow(cols.size() + groupTargets.size());
     List<SearchPass.Target> targets = new ArrayList<>();
     List<RankSearch> searches = new ArrayList<>();
     List<OrderWindows> first = new ArrayList<>();
+    for (int k = 0; k < groupTargets.size(); k++) {
+      SearchPass.Target t = groupTargets.get(k);
+      double[] distances = new double[pilot[t.at()].length];
+      int n = 0;
+      for (int r = 0; r < distances.length; r++) {
+        double d = keys.pilotKeys()[r] == t.key() ? t.value(pilot[t.at()][r]) : Double.NaN;
+        if (!Double.isNaN(d)) {
+          distances[n++] = d;
+        }
+      }
+      RankSearch search = new RankSearch(new double[] {0.5}, perWindow);
+      long usable = keys.groups().columns().get(groupColumns.get(k)).get(groupKeys.get(k)).usable();
+      first.add(search.firstPlan(java.util.Arrays.copyOf(distances, n), usable));
+      targets.add(t);
+      searches.add(search);
+    }
     for (int j : cols) {
       SearchPass.Target t = new SearchPass.Target(j, validity[j], false, quartiles.get(j).quantiles()[1]);
       double[] distances = new double[pilot[j].length];
@@ -317,8 +369,13 @@ public final class Profiler {
       searches.add(search);
     }
     SearchPass.complete(numeric, targets, searches, first);
+    int g = groupTargets.size();
+    for (int k = 0; k < g; k++) {
+      Map<List<String>, GroupMeasures.Measure> byKey = keys.groups().columns().get(groupColumns.get(k));
+      byKey.put(groupKeys.get(k), byKey.get(groupKeys.get(k)).withMad(searches.get(k).quantiles()[0]));
+    }
     for (int k = 0; k < cols.size(); k++) {
-      out[cols.get(k)] = searches.get(k).quantiles()[0];
+      out[cols.get(k)] = searches.get(g + k).quantiles()[0];
     }
     return out;
   }

@@ -5,7 +5,9 @@ import dev.sluice.stats.OrderWindows;
 import dev.sluice.stats.RankSearch;
 import java.io.Serializable;
 import java.util.ArrayList;
+import java.util.HashMap;
 import java.util.List;
+import java.util.Map;
 import org.apache.spark.api.java.JavaRDD;
 import org.apache.spark.sql.catalyst.InternalRow;
 
@@ -22,9 +24,16 @@ public final class SearchPass implements RowScan.Accumulator<SearchPass> {
 
   /**
    * The values one search looks at: the column at position {@code at}, after the validity step
-   * (or steps 2 and 3 when {@code treated}), as the distance from {@code centre} unless it is NaN.
+   * (or steps 2 and 3 when {@code treated}), as the distance from {@code centre} unless it is NaN;
+   * with {@code keyAt} at least 0, only in the rows whose LONG there is {@code key} (one group).
    */
-  public record Target(int at, NumericSteps steps, boolean treated, double centre) implements Serializable {
+  public record Target(int at, NumericSteps steps, boolean treated, double centre, int keyAt, long key)
+      implements Serializable {
+    /** A target over every row. */
+    public Target(int at, NumericSteps steps, boolean treated, double centre) {
+      this(at, steps, treated, centre, -1, 0L);
+    }
+
     /** The value of raw x that the search counts, or NaN for none. */
     public double value(double x) {
       double v = treated ? steps.treated(x) : steps.valid(x);
@@ -34,10 +43,32 @@ public final class SearchPass implements RowScan.Accumulator<SearchPass> {
 
   private final Target[] targets;
   private final OrderWindows[] windows;
+  /** The targets over every row; those of each group key, by key (one key column for all). */
+  private final int[] everyRow;
+  private final Map<Long, int[]> byKey;
+  private final int keyAt;
 
   SearchPass(Target[] targets, OrderWindows[] windows) {
     this.targets = targets;
     this.windows = windows;
+    List<Integer> every = new ArrayList<>();
+    Map<Long, List<Integer>> keyed = new HashMap<>();
+    int at = -1;
+    for (int t = 0; t < targets.length; t++) {
+      if (targets[t].keyAt() < 0) {
+        every.add(t);
+      } else {
+        if (at >= 0 && at != targets[t].keyAt()) {
+          throw new IllegalArgumentException("Group targets read their key from different positions");
+        }
+        at = targets[t].keyAt();
+        keyed.computeIfAbsent(targets[t].key(), k -> new ArrayList<>()).add(t);
+      }
+    }
+    this.everyRow = every.stream().mapToInt(Integer::intValue).toArray();
+    this.byKey = new HashMap<>();
+    keyed.forEach((k, list) -> byKey.put(k, list.stream().mapToInt(Integer::intValue).toArray()));
+    this.keyAt = at;
   }
 
   private SearchPass emptyCopy() {
@@ -50,15 +81,27 @@ public final class SearchPass implements RowScan.Accumulator<SearchPass> {
 
   @Override
   public void add(InternalRow row) {
-    for (int t = 0; t < targets.length; t++) {
-      int at = targets[t].at();
-      if (row.isNullAt(at)) {
-        continue;
+    for (int t : everyRow) {
+      count(t, row);
+    }
+    if (keyAt >= 0) {
+      int[] group = byKey.get(row.getLong(keyAt));
+      if (group != null) {
+        for (int t : group) {
+          count(t, row);
+        }
       }
-      double v = targets[t].value(row.getDouble(at));
-      if (!Double.isNaN(v)) {
-        windows[t].add(v);
-      }
+    }
+  }
+
+  private void count(int t, InternalRow row) {
+    int at = targets[t].at();
+    if (row.isNullAt(at)) {
+      return;
+    }
+    double v = targets[t].value(row.getDouble(at));
+    if (!Double.isNaN(v)) {
+      windows[t].add(v);
     }
   }
 

@@ -129,9 +129,27 @@ public final class GroupPass {
         measured.put(searched.get(j).name(), stats);
       }
     }
-    List<ColumnPlan> madColumns = grouped.stream().filter(GroupPlanner::needsMad).toList();
-    Map<String, Map<List<String>, Double>> mads = madColumns.isEmpty() ? Map.of()
-        : mads(data, by, madColumns, measured, maxGroups, sketchSize(rows, madColumns.size(), maxHeld));
+    // Each group's MAD: found beside the table-wide MAD in the profile, or searched now.
+    Map<String, Map<List<String>, Double>> mads = new HashMap<>();
+    List<ColumnPlan> madColumns = new ArrayList<>();
+    for (ColumnPlan cp : grouped) {
+      if (!GroupPlanner.needsMad(cp)) {
+        continue;
+      }
+      Map<List<String>, GroupMeasures.Measure> found = passOne == null ? null : passOne.columns().get(cp.name());
+      boolean complete = found != null && found.values().stream()
+          .allMatch(m -> m.usable() < minValues || Double.isNaN(m.quartiles()[1]) || !Double.isNaN(m.mad()));
+      if (complete) {
+        Map<List<String>, Double> byKey = new HashMap<>();
+        found.forEach((key, m) -> byKey.put(key, m.mad()));
+        mads.put(cp.name(), byKey);
+      } else {
+        madColumns.add(cp);
+      }
+    }
+    if (!madColumns.isEmpty()) {
+      mads.putAll(mads(data, by, madColumns, measured, maxGroups, sketchSize(rows, madColumns.size(), maxHeld)));
+    }
     List<ColumnPlan> second = new ArrayList<>();
     for (ColumnPlan cp : grouped) {
       List<GroupFigures.Group> groups = new ArrayList<>();

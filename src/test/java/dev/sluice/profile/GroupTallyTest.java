@@ -208,6 +208,26 @@ class GroupTallyTest {
   }
 
   @Test
+  void eachGroupsMadIsFoundInThePassOfTheTableWideMad(SparkSession spark) {
+    Map<String, double[]> values = values(false);
+    Sluice.Fit fit = Sluice.fit(table(spark, values), settings("defaults.outliers.method=mad"), List.of());
+    Map<List<String>, GroupMeasures.Measure> dwell = fit.profile().groups().columns().get("dwell hours");
+    for (String depot : List.of("A", "B")) {
+      double[] v = values.get(depot);
+      double median = r7(v, 0.5);
+      // The MAD: the median of the distances from the median (Commons Math R_7 on both).
+      double mad = r7(Arrays.stream(v).map(x -> Math.abs(x - median)).toArray(), 0.5);
+      assertThat(dwell.get(List.of(depot)).mad()).as(depot).isEqualTo(mad);
+      GroupFigures.Group g = figures(fit.plan().columns(), "dwell hours").stream()
+          .filter(x -> x.key().equals(List.of(depot))).findFirst().orElseThrow();
+      // Iglewicz and Hoaglin's modified z-score limit 3.5 (the default): median -/+ 3.5 MAD / 0.6745.
+      assertThat(g.upper()).as(depot).isCloseTo(median + 3.5 * mad / 0.6745, within(1e-7));
+    }
+    // C is too small for figures of its own: no MAD searched.
+    assertThat(dwell.get(List.of("C")).mad()).isNaN();
+  }
+
+  @Test
   void passOneCountsEachGroupsModeAsSparksDeterministicModeDoes(SparkSession spark) {
     Dataset<Row> data = table(spark, values(true));
     // The key column treated too: filled by its mode, but never group by group.
