@@ -28,17 +28,20 @@ public record GroupMeasures(List<String> by, Map<String, Map<List<String>, Measu
    * @param regions the moments of the values in each region of those windows, or null
    * @param mad the median absolute deviation from the group's median, for a column with MAD
    *     limits (found in the pass that finds the table-wide MAD); NaN when not found
+   * @param values each usable value's count, for a column filled with its mode; null when not
+   *     counted or too many distinct values to count
    */
   public record Measure(long usable, double mean, double stddev, double[] quartiles,
-      dev.sluice.stats.OrderWindows windows, dev.sluice.stats.ScaledMoments[] regions, double mad) {
+      dev.sluice.stats.OrderWindows windows, dev.sluice.stats.ScaledMoments[] regions, double mad,
+      dev.sluice.stats.HashedCounts<Double> values) {
     /** Without windows. */
     public Measure(long usable, double mean, double stddev, double[] quartiles) {
-      this(usable, mean, stddev, quartiles, null, null, Double.NaN);
+      this(usable, mean, stddev, quartiles, null, null, Double.NaN, null);
     }
 
     /** The same figures with the group's MAD. */
     Measure withMad(double value) {
-      return new Measure(usable, mean, stddev, quartiles, windows, regions, value);
+      return new Measure(usable, mean, stddev, quartiles, windows, regions, value, values);
     }
   }
 

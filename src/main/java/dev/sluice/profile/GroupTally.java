@@ -68,6 +68,8 @@ final class GroupTally implements Serializable {
   private final Map<Long, OrderWindows[]> planned;
   /** Columns given no windows, because those of all their groups would pass the memory budget. */
   private final boolean[] skipped;
+  /** Columns whose values each group counts (a mode fill), up to textLimit distinct values. */
+  private final boolean[] countValues;
 
   // State of one part: open addressing from hash to slot, then per slot.
   private long[] table;
@@ -80,11 +82,13 @@ final class GroupTally implements Serializable {
   private ScaledMoments[][][] moments;
   private long[][] present;
   private HashedCounts<UTF8String>[][] texts;
+  private HashedCounts<Double>[][] numbers;
   /** More groups than maxGroups were seen: the tally stopped. */
   boolean overflowed;
 
   private GroupTally(int keyAt, int keyTextAt, int[] cols, NumericSteps[] validity, int maxGroups,
-      int[] textAt, int[] textHashAt, int textLimit, Map<Long, OrderWindows[]> planned, boolean[] skipped) {
+      int[] textAt, int[] textHashAt, int textLimit, Map<Long, OrderWindows[]> planned, boolean[] skipped,
+      boolean[] countValues) {
     this.keyAt = keyAt;
     this.keyTextAt = keyTextAt;
     this.cols = cols;
@@ -95,6 +99,7 @@ final class GroupTally implements Serializable {
     this.textLimit = textLimit;
     this.planned = planned;
     this.skipped = skipped;
+    this.countValues = countValues;
     int capacity = Integer.highestOneBit(Math.max(16, 4 * (maxGroups + 1)) - 1) << 1;
     this.table = new long[capacity];
     this.tableSlot = new int[capacity];
@@ -105,6 +110,17 @@ final class GroupTally implements Serializable {
     this.moments = new ScaledMoments[8][][];
     this.present = new long[8][];
     this.texts = newTexts(8);
+    this.numbers = newNumbers(8);
+  }
+
+  @SuppressWarnings("unchecked")
+  private static HashedCounts<Double>[] newNumberRow(int n) {
+    return new HashedCounts[n];
+  }
+
+  @SuppressWarnings("unchecked")
+  private static HashedCounts<Double>[][] newNumbers(int n) {
+    return new HashedCounts[n][];
   }
 
   @SuppressWarnings("unchecked")
@@ -123,13 +139,14 @@ final class GroupTally implements Serializable {
    *
    * @param cols measured columns (projection positions) to tally
    * @param iqrK per column, its Tukey k, or NaN for no fence bands
+   * @param countValues per column, whether each group counts its values (for a mode fill)
    * @param text categorical columns (table positions) whose group modes to tally
    * @param pilot the pilot's values per measured column, and its key hashes (empty: no pilot, the
    *     table is small enough that one window holds each group's values)
    * @param rows the table's rows
    */
   static java.util.Optional<GroupTally> plan(ProfileLayout layout, int[] cols, NumericSteps[] validity, double[] iqrK,
-      int[] text, RowScan.Pilot pilot, long rows, int maxGroups, int budget) {
+      boolean[] countValues, int[] text, RowScan.Pilot pilot, long rows, int maxGroups, int budget) {
     Map<Long, OrderWindows[]> planned = new HashMap<>();
     long[] keys = pilot.keys();
     Map<Long, List<Integer>> rowsOf = new LinkedHashMap<>();
@@ -145,13 +162,17 @@ final class GroupTally implements Serializable {
       textAt[t] = layout.at[text[t]];
       textHashAt[t] = layout.hashAt[text[t]];
     }
+    int counted = text.length;
+    for (boolean b : countValues) {
+      counted += b ? 1 : 0;
+    }
     int textLimit = (int) Math.max(MIN_HELD, Math.min(ProfileAccumulator.COUNTED_VALUES,
-        TEXT_BUDGET / Math.max(1L, (long) Math.max(1, rowsOf.size()) * Math.max(1, text.length))));
+        TEXT_BUDGET / Math.max(1L, (long) Math.max(1, rowsOf.size()) * Math.max(1, counted))));
     boolean[] skipped = new boolean[cols.length];
     if (keys.length == 0) {
       // No pilot: the table holds at most the budget's values per window; each group's window holds all.
       return java.util.Optional.of(new GroupTally(layout.keyAt, layout.keyTextAt, cols, validity, maxGroups,
-          textAt, textHashAt, textLimit, planned, skipped));
+          textAt, textHashAt, textLimit, planned, skipped, countValues));
     }
     long[] held = new long[cols.length];
     for (Map.Entry<Long, List<Integer>> e : rowsOf.entrySet()) {
@@ -193,7 +214,7 @@ final class GroupTally implements Serializable {
       }
     }
     return java.util.Optional.of(new GroupTally(layout.keyAt, layout.keyTextAt, cols, validity, maxGroups,
-        textAt, textHashAt, textLimit, planned, skipped));
+        textAt, textHashAt, textLimit, planned, skipped, countValues));
   }
 
   /**
@@ -238,7 +259,7 @@ final class GroupTally implements Serializable {
   /** An empty tally over the same windows, for one partition. */
   GroupTally emptyCopy() {
     return new GroupTally(keyAt, keyTextAt, cols, validity, maxGroups, textAt, textHashAt, textLimit, planned,
-        skipped);
+        skipped, countValues);
   }
 
   /** One row of the full projection. */
@@ -252,6 +273,7 @@ final class GroupTally implements Serializable {
     }
     OrderWindows[] w = windows[s];
     ScaledMoments[][] m = moments[s];
+    HashedCounts<Double>[] counted = numbers[s];
     for (int c = 0; c < cols.length; c++) {
       int j = cols[c];
       if (row.isNullAt(j)) {
@@ -260,6 +282,13 @@ final class GroupTally implements Serializable {
       double x = validity[c].valid(row.getDouble(j));
       if (!Double.isNaN(x)) {
         m[c][w[c] == null ? 0 : w[c].add(x)].add(x);
+        if (counted[c] != null) {
+          double v = x + 0.0;
+          long bits = Double.doubleToLongBits(v);
+          if (!counted[c].increment(bits)) {
+            counted[c].insert(bits, v);
+          }
+        }
       }
     }
     long[] n = present[s];
@@ -287,7 +316,7 @@ final class GroupTally implements Serializable {
     for (int i = 0; i < key.length; i++) {
       key[i] = text.isNullAt(i) ? null : text.getUTF8String(i).toString();
     }
-    return insert(at, hash, key, null, null, null, null);
+    return insert(at, hash, key, null, null, null, null, null);
   }
 
   /** The table position of {@code hash}, or the empty position where it would go. */
@@ -301,7 +330,7 @@ final class GroupTally implements Serializable {
   }
 
   private int insert(int at, long hash, String[] key, OrderWindows[] w, ScaledMoments[][] m, long[] n,
-      HashedCounts<UTF8String>[] counts) {
+      HashedCounts<UTF8String>[] counts, HashedCounts<Double>[] values) {
     if (slots == maxGroups) {
       overflowed = true;
       return -1;
@@ -314,6 +343,7 @@ final class GroupTally implements Serializable {
       moments = Arrays.copyOf(moments, grown);
       present = Arrays.copyOf(present, grown);
       texts = Arrays.copyOf(texts, grown);
+      numbers = Arrays.copyOf(numbers, grown);
     }
     int s = slots++;
     table[at] = hash;
@@ -334,11 +364,16 @@ final class GroupTally implements Serializable {
       }
       n = new long[textAt.length];
       counts = newCounts(textAt.length, textLimit);
+      values = newNumberRow(cols.length);
+      for (int c = 0; c < cols.length; c++) {
+        values[c] = countValues[c] ? new HashedCounts<>(textLimit) : null;
+      }
     }
     windows[s] = w;
     moments[s] = m;
     present[s] = n;
     texts[s] = counts;
+    numbers[s] = values;
     return s;
   }
 
@@ -364,7 +399,7 @@ final class GroupTally implements Serializable {
       int at = find(o.hashes[t]);
       int s = tableSlot[at];
       if (s < 0) {
-        insert(at, o.hashes[t], o.keys[t], o.windows[t], o.moments[t], o.present[t], o.texts[t]);
+        insert(at, o.hashes[t], o.keys[t], o.windows[t], o.moments[t], o.present[t], o.texts[t], o.numbers[t]);
         continue;
       }
       for (int x = 0; x < textAt.length; x++) {
@@ -377,6 +412,9 @@ final class GroupTally implements Serializable {
         }
         if (windows[s][c] != null) {
           windows[s][c].merge(o.windows[t][c]);
+        }
+        if (numbers[s][c] != null) {
+          numbers[s][c].merge(o.numbers[t][c]);
         }
       }
     }
@@ -430,7 +468,8 @@ final class GroupTally implements Serializable {
           }
         }
         groups.put(Arrays.asList(keys[s]), new GroupMeasures.Measure(m.count(), m.mean(), m.stddev(), q,
-            w, w == null ? null : moments[s][c], Double.NaN));
+            w, w == null ? null : moments[s][c], Double.NaN,
+            numbers[s][c] == null || numbers[s][c].overflowed() ? null : numbers[s][c]));
       }
       if (missed == null) {
         settled.put(names[c], groups);

@@ -201,12 +201,14 @@ public final class Profiler {
     }
     int[] text = groupedText.stream().mapToInt(name -> java.util.Arrays.asList(layout.names).indexOf(name)).toArray();
     double[] iqrK = new double[cols.size()];
+    boolean[] countValues = new boolean[cols.size()];
     for (int c = 0; c < iqrK.length; c++) {
       ColumnSettings cs = settings.column(layout.names[measured[cols.get(c)]]);
       iqrK[c] = cs.outliers().method() == OutlierMethod.IQR ? cs.outliers().iqrK() : Double.NaN;
+      countValues[c] = cs.missing().strategy() == dev.sluice.config.ImputeStrategy.MODE;
     }
     return GroupTally.plan(layout, cols.stream().mapToInt(Integer::intValue).toArray(),
-        steps.toArray(new NumericSteps[0]), iqrK, text, pilot, rows, settings.groups().maxGroups(),
+        steps.toArray(new NumericSteps[0]), iqrK, countValues, text, pilot, rows, settings.groups().maxGroups(),
         settings.quantiles().maxHeldValues()).orElse(null);
   }
 

@@ -190,13 +190,19 @@ public final class GroupPass {
    */
   public static double fillFromPassOne(ColumnPlan cp, GroupFigures.Group g, GroupMeasures.Measure m) {
     String strategy = cp.missing().strategy();
-    if (m == null || m.windows() == null || !(strategy.equals("mean") || strategy.equals("median"))) {
+    if (m == null) {
       return Double.NaN;
     }
     OutlierPlan table = cp.outliers();
     OutlierPlan own = new OutlierPlan(table.method(), table.direction(), table.action(), g.lower(), g.upper(),
         null, null, null, null, table.reason());
     NumericSteps steps = own.steps(cp.validMin(), cp.validMax());
+    if (strategy.equals("mode")) {
+      return m.values() == null ? Double.NaN : modeAfter(m.values(), steps);
+    }
+    if (m.windows() == null || !(strategy.equals("mean") || strategy.equals("median"))) {
+      return Double.NaN;
+    }
     ScaledMoments after = PassOneFinish.treatedMoments(m.windows(), m.regions(), steps, own);
     if (after == null || after.count() == 0) {
       return Double.NaN;
@@ -217,6 +223,30 @@ public final class GroupPass {
     }
     return PassOneFinish.afterRemoval(m.windows(), search, removedBelow, after.count(), new double[] {0.5})
         .map(q -> q[0]).orElse(Double.NaN);
+  }
+
+  /**
+   * The most frequent value after the outlier step, from each usable value's count: capped values
+   * count at their limit, removed ones not at all; ties to the lowest value (as the table-wide
+   * mode and Spark's deterministic mode); NaN when no value is left.
+   */
+  static double modeAfter(dev.sluice.stats.HashedCounts<Double> counts, NumericSteps steps) {
+    Map<Double, Long> after = new HashMap<>();
+    for (Map.Entry<Double, Long> e : counts.mostCommon(Integer.MAX_VALUE)) {
+      double t = steps.afterOutliers(e.getKey());
+      if (!Double.isNaN(t)) {
+        after.merge(t + 0.0, e.getValue(), Long::sum);
+      }
+    }
+    double best = Double.NaN;
+    long most = 0;
+    for (Map.Entry<Double, Long> e : after.entrySet()) {
+      if (e.getValue() > most || e.getValue() == most && e.getKey() < best) {
+        best = e.getKey();
+        most = e.getValue();
+      }
+    }
+    return best;
   }
 
   /** The names of the plan's group-wise columns that {@code passOne} left to the search, with the reasons. */

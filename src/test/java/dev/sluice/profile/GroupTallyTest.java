@@ -208,6 +208,30 @@ class GroupTallyTest {
   }
 
   @Test
+  void aNumericModeFillAfterEachGroupsCappingOrRemovalComesFromPassOnesCounts(SparkSession spark) {
+    Dataset<Row> data = table(spark, values(false));
+    for (String action : List.of("cap", "set-missing")) {
+      Settings settings = settings("defaults.outliers.action=" + action, "defaults.missing.strategy=mode");
+      Sluice.Fit fit = Sluice.fit(data, settings, List.of());
+      ColumnPlan dwell = fit.plan().column("dwell hours").orElseThrow();
+      GroupFigures.Group a = figures(fit.plan().columns(), "dwell hours").stream()
+          .filter(x -> x.key().equals(List.of("A"))).findFirst().orElseThrow();
+      // A's twelve planted extremes are capped to its upper fence, where they outnumber every
+      // value (at most two copies each); removed, the lowest value seen twice is the mode.
+      double expected = action.equals("cap") ? a.upper() : 0.0;
+      double fromPassOne = GroupPass.fillFromPassOne(dwell, a,
+          fit.profile().groups().columns().get("dwell hours").get(List.of("A")));
+      assertThat(fromPassOne).as(action).isEqualTo(expected);
+      assertThat(a.fill()).as(action).isEqualTo(expected);
+      // Reference: Spark's mode(values after the outlier step, true) per group, the aggregate
+      // used when pass 1 could not count the values.
+      List<ColumnPlan> tableWide = fit.plan().columns().stream().map(cp -> cp.withGroups(null)).toList();
+      List<ColumnPlan> searched = GroupPass.fit(data, tableWide, settings, fit.profile().rows(), null);
+      assertThat(figures(fit.plan().columns(), "dwell hours")).as(action).isEqualTo(figures(searched, "dwell hours"));
+    }
+  }
+
+  @Test
   void eachGroupsMadIsFoundInThePassOfTheTableWideMad(SparkSession spark) {
     Map<String, double[]> values = values(false);
     Sluice.Fit fit = Sluice.fit(table(spark, values), settings("defaults.outliers.method=mad"), List.of());
@@ -297,7 +321,7 @@ class GroupTallyTest {
       keys[i] = 7;
     }
     NumericSteps[] valid = {NumericSteps.validity(null, null)};
-    GroupTally tally = GroupTally.plan(layout, new int[] {0}, valid, new double[] {Double.NaN}, new int[0], new RowScan.Pilot(new double[][] {pilot}, keys),
+    GroupTally tally = GroupTally.plan(layout, new int[] {0}, valid, new double[] {Double.NaN}, new boolean[1], new int[0], new RowScan.Pilot(new double[][] {pilot}, keys),
         1_000_000, 10, 8_000_000).orElseThrow();
     // The pass then finds depot 7's values far above its windows; depot 8, unseen, has 10 values.
     GroupTally part1 = tally.emptyCopy();
