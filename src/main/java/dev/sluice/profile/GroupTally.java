@@ -17,9 +17,12 @@ import org.apache.spark.sql.catalyst.util.ArrayData;
 import org.apache.spark.unsafe.types.UTF8String;
 
 /**
- * Pass 1's group-wise share: per group of groups.by, the count, moments and quartile windows of
- * the usable values of each candidate column, so that group-wise limits and fill values need no
- * pass of their own.
+ * Pass 1's group-wise share: per group of groups.by, the quartile windows of the usable values of
+ * each candidate column with the moments of each of their regions, the counts of the values of
+ * columns filled with their mode (categorical, or numeric with a mode fill), so that group-wise
+ * limits and fill values need no pass of their own. The windows also cover the bands where a
+ * group's Tukey fences can fall, so that figures after the group's capping or removal can be read
+ * off them as the table-wide ones are ({@code treat.PassOneFinish}).
  *
  * <p>A group is known in the pass by its key's 64-bit hash (as {@code stats.HashedCounts} knows
  * a text value; two keys with the same hash would be taken as one, odds of about 3e-14 for 1,000
@@ -31,7 +34,8 @@ import org.apache.spark.unsafe.types.UTF8String;
  *
  * <p>Memory: one slot per group, at most groups.max-groups (past that the tally stops and every
  * column is searched later, which reports the limit); the windows' held values are bounded by
- * {@link #plan}'s budget.
+ * {@link #plan}'s budget (quantiles.max-held-values, beside the table-wide windows' own), the
+ * value counts by {@link #TEXT_BUDGET}.
  */
 final class GroupTally implements Serializable {
   private static final long serialVersionUID = 1L;
@@ -48,7 +52,7 @@ final class GroupTally implements Serializable {
   static final double HEADROOM = 3.0;
   /** Fewest values a window is allowed to hold. */
   static final int MIN_HELD = 1_000;
-  /** Distinct values the groups' counts of one categorical column hold in all, at most. */
+  /** Distinct values the groups' counts hold in all, at most, shared by the counted columns. */
   static final long TEXT_BUDGET = 2_000_000;
 
   private final int keyAt;
