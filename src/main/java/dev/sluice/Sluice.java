@@ -79,7 +79,7 @@ public final class Sluice {
     if (settings.groups().any()) {
       Map<String, String> searched = GroupPass.searchedAfterPlan(plan.columns(), settings.groups().by(), profile.groups());
       progress.accept("group-wise limits and fill values by " + String.join(", ", settings.groups().by())
-          + (searched.isEmpty() ? ": group quartiles from pass 1"
+          + (searched.isEmpty() ? ": measured in the profile passes, beside the table-wide figures"
               : ": searching the group quartiles of " + String.join(", ", searched.keySet()) + " ("
                   + String.join("; ", new java.util.LinkedHashSet<>(searched.values())) + ")"));
       long t2 = System.nanoTime();

@@ -194,7 +194,7 @@ final class EarlySetup {
   }
 
   /** The first index whose value is at least x. */
-  private static int lowerBound(double[] sorted, double x) {
+  static int lowerBound(double[] sorted, double x) {
     int lo = 0;
     int hi = sorted.length;
     while (lo < hi) {

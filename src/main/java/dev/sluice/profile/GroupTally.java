@@ -241,23 +241,9 @@ final class GroupTally implements Serializable {
 
   /** How many of the sorted values lie in [low, high]. */
   private static int between(double[] sorted, double low, double high) {
-    int from = lowerBound(sorted, low);
-    int to = lowerBound(sorted, Math.nextUp(high));
+    int from = EarlySetup.lowerBound(sorted, low);
+    int to = EarlySetup.lowerBound(sorted, Math.nextUp(high));
     return Math.max(0, to - from);
-  }
-
-  private static int lowerBound(double[] sorted, double x) {
-    int lo = 0;
-    int hi = sorted.length;
-    while (lo < hi) {
-      int mid = (lo + hi) >>> 1;
-      if (sorted[mid] < x) {
-        lo = mid + 1;
-      } else {
-        hi = mid;
-      }
-    }
-    return lo;
   }
 
   /** An empty tally over the same windows, for one partition. */

@@ -1,6 +1,7 @@
 package dev.sluice.profile;
 
 import dev.sluice.config.ColumnSettings;
+import dev.sluice.config.ImputeStrategy;
 import dev.sluice.config.OutlierMethod;
 import dev.sluice.config.Role;
 import dev.sluice.config.Settings;
@@ -140,8 +141,8 @@ public final class Profiler {
   /**
    * The measured columns that may get group-wise figures, in table order (none without
    * groups.by): treated, not key columns, with outlier limits or a median, mean or mode fill (a
-   * group's MAD and mode are measured after the plan, from what pass 1 gives here). The plan may
-   * still leave some untreated; measuring them costs pass 1 a little, never a pass.
+   * group's MAD is found in the MAD pass; its mode is read off pass 1's counts). The plan may still
+   * leave some untreated; measuring them costs pass 1 a little, never a pass.
    */
   static List<String> groupCandidates(ProfileLayout layout, Settings settings) {
     List<String> out = new ArrayList<>();
@@ -156,9 +157,9 @@ public final class Profiler {
       }
       ColumnSettings cs = settings.column(name);
       boolean limits = cs.outliers().method() != OutlierMethod.NONE;
-      dev.sluice.config.ImputeStrategy strategy = cs.missing().strategy();
-      boolean fill = strategy == dev.sluice.config.ImputeStrategy.MEDIAN
-          || strategy == dev.sluice.config.ImputeStrategy.MEAN || strategy == dev.sluice.config.ImputeStrategy.MODE;
+      ImputeStrategy strategy = cs.missing().strategy();
+      boolean fill = strategy == ImputeStrategy.MEDIAN
+          || strategy == ImputeStrategy.MEAN || strategy == ImputeStrategy.MODE;
       if ((role == Role.TREAT || role == Role.REQUIRED) && (limits || fill)) {
         out.add(name);
       }
@@ -177,9 +178,9 @@ public final class Profiler {
     }
     for (int i : layout.categorical) {
       String name = layout.names[i];
-      dev.sluice.config.ImputeStrategy strategy = settings.column(name).missing().strategy();
+      ImputeStrategy strategy = settings.column(name).missing().strategy();
       if (layout.roles[i] == Role.TREAT && !settings.groups().by().contains(name)
-          && strategy != dev.sluice.config.ImputeStrategy.NONE && strategy != dev.sluice.config.ImputeStrategy.CONSTANT) {
+          && strategy != ImputeStrategy.NONE && strategy != ImputeStrategy.CONSTANT) {
         out.add(name);
       }
     }
@@ -205,7 +206,7 @@ public final class Profiler {
     for (int c = 0; c < iqrK.length; c++) {
       ColumnSettings cs = settings.column(layout.names[measured[cols.get(c)]]);
       iqrK[c] = cs.outliers().method() == OutlierMethod.IQR ? cs.outliers().iqrK() : Double.NaN;
-      countValues[c] = cs.missing().strategy() == dev.sluice.config.ImputeStrategy.MODE;
+      countValues[c] = cs.missing().strategy() == ImputeStrategy.MODE;
     }
     return GroupTally.plan(layout, cols.stream().mapToInt(Integer::intValue).toArray(),
         steps.toArray(new NumericSteps[0]), iqrK, countValues, text, pilot, rows, settings.groups().maxGroups(),
