@@ -485,6 +485,27 @@ final class GroupTally implements Serializable {
     return new GroupMeasures(by, settled, modes, unsettled);
   }
 
+  /** One group's share of a column's tally: its key and hash, moments, and windows (null: none). */
+  record Part(List<String> key, long hash, ScaledMoments moments, OrderWindows windows) {}
+
+  /** Each group's share of tallied column {@code c}, in key order (of the merged tally). */
+  List<Part> parts(int c) {
+    Integer[] order = new Integer[slots];
+    for (int s = 0; s < slots; s++) {
+      order[s] = s;
+    }
+    Arrays.sort(order, (a, b) -> compareKeys(keys[a], keys[b]));
+    List<Part> out = new ArrayList<>();
+    for (int s : order) {
+      ScaledMoments m = new ScaledMoments();
+      for (ScaledMoments r : moments[s][c]) {
+        m.merge(r);
+      }
+      out.add(new Part(Arrays.asList(keys[s]), hashes[s], m, windows[s][c]));
+    }
+    return out;
+  }
+
   /** Each group's key hash, by key (of the merged tally). */
   Map<List<String>, Long> hashes() {
     Map<List<String>, Long> out = new HashMap<>();

@@ -15,6 +15,7 @@ import java.time.LocalDateTime;
 import java.time.ZoneOffset;
 import java.time.temporal.ChronoUnit;
 import java.util.ArrayList;
+import java.util.HashMap;
 import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Map;
@@ -116,6 +117,9 @@ public final class Profiler {
             "the pilot showed more groups, or wider windows, than pass 1 holds")
         : acc.groups.finish(settings.groups().by(), grouped.toArray(new String[0]),
             groupedText.toArray(new String[0]), settings.groups().minValues());
+    if (tally != null && !acc.groups.overflowed) {
+      groups = settleLeft(numeric, acc.groups, groups, grouped, layout, measured, validity, taken, settings);
+    }
     GroupKeys keys = tally == null ? null : new GroupKeys(groups, acc.groups.hashes(), taken.keys(), measured.length,
         settings.groups().minValues());
     double[] mad = mads(numeric, layout, measured, settings, validity, searches, pilot, rows, keys);
@@ -185,6 +189,88 @@ public final class Profiler {
       }
     }
     return out;
+  }
+
+  /**
+   * The group quartiles pass 1 left unfound (a group its pilot did not include, a window that
+   * missed, windows beyond the memory budget), searched in plain-Java passes over the numeric
+   * projection, one search per group and column read only in its group's rows: as the table-wide
+   * search continues, exact, usually in one pass. Columns with more group searches than
+   * {@value #MAX_GROUP_TARGETS} are left to the grouped search after the plan.
+   */
+  private static GroupMeasures settleLeft(JavaRDD<InternalRow> numeric, GroupTally tally, GroupMeasures groups,
+      List<String> grouped, ProfileLayout layout, int[] measured, NumericSteps[] validity, RowScan.Pilot pilot,
+      Settings settings) {
+    int minValues = settings.groups().minValues();
+    List<SearchPass.Target> targets = new ArrayList<>();
+    List<String> names = new ArrayList<>();
+    List<GroupTally.Part> parts = new ArrayList<>();
+    List<String> left = new ArrayList<>();
+    for (int c = 0; c < grouped.size(); c++) {
+      String name = grouped.get(c);
+      if (!groups.unsettled().containsKey(name)) {
+        continue;
+      }
+      int j = java.util.stream.IntStream.range(0, measured.length)
+          .filter(k -> layout.names[measured[k]].equals(name)).findFirst().orElseThrow();
+      List<GroupTally.Part> own = tally.parts(c).stream().filter(p -> p.moments().count() >= minValues).toList();
+      if (targets.size() + own.size() > MAX_GROUP_TARGETS) {
+        continue;
+      }
+      left.add(name);
+      for (GroupTally.Part p : own) {
+        targets.add(new SearchPass.Target(j, validity[j], false, Double.NaN, layout.measured, p.hash()));
+        names.add(name);
+        parts.add(p);
+      }
+    }
+    if (left.isEmpty()) {
+      return groups;
+    }
+    int perWindow = settings.quantiles().heldPerWindow(QUARTILES.length * Math.max(1, targets.size()));
+    List<RankSearch> searches = new ArrayList<>();
+    List<OrderWindows> first = new ArrayList<>();
+    for (int t = 0; t < targets.size(); t++) {
+      GroupTally.Part p = parts.get(t);
+      RankSearch search = new RankSearch(QUARTILES, perWindow);
+      if (p.windows() != null) {
+        // Pass 1's windows missed: the search goes on from their counts.
+        search.absorb(p.windows());
+        first.add(null);
+      } else {
+        SearchPass.Target target = targets.get(t);
+        double[] values = new double[pilot.keys().length];
+        int n = 0;
+        for (int r = 0; r < values.length; r++) {
+          double v = pilot.keys()[r] == p.hash() ? target.value(pilot.values()[target.at()][r]) : Double.NaN;
+          if (!Double.isNaN(v)) {
+            values[n++] = v;
+          }
+        }
+        first.add(search.firstPlan(java.util.Arrays.copyOf(values, n), p.moments().count()));
+      }
+      searches.add(search);
+    }
+    SearchPass.complete(numeric, targets, searches, first);
+    Map<String, Map<Long, double[]>> found = new HashMap<>();
+    for (int t = 0; t < targets.size(); t++) {
+      found.computeIfAbsent(names.get(t), k -> new HashMap<>()).put(parts.get(t).hash(), searches.get(t).quantiles());
+    }
+    Map<String, Map<List<String>, GroupMeasures.Measure>> columns = new LinkedHashMap<>(groups.columns());
+    Map<String, String> unsettled = new LinkedHashMap<>(groups.unsettled());
+    for (String name : left) {
+      Map<List<String>, GroupMeasures.Measure> byKey = new LinkedHashMap<>();
+      for (GroupTally.Part p : tally.parts(grouped.indexOf(name))) {
+        // A group with too few values has no search: NaN quartiles, as in pass 1.
+        double[] q = found.getOrDefault(name, Map.of()).getOrDefault(p.hash(),
+            new double[] {Double.NaN, Double.NaN, Double.NaN});
+        ScaledMoments m = p.moments();
+        byKey.put(p.key(), new GroupMeasures.Measure(m.count(), m.mean(), m.stddev(), q));
+      }
+      columns.put(name, byKey);
+      unsettled.remove(name);
+    }
+    return new GroupMeasures(groups.by(), columns, groups.modes(), unsettled);
   }
 
   /** The group tally of pass 1 over the columns in {@code grouped} and {@code groupedText}, or null. */
