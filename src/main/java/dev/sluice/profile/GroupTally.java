@@ -50,6 +50,8 @@ final class GroupTally implements Serializable {
   static final double BRACKET_ERRORS = 4.0;
   /** A window holds up to this many times the values it is expected to, before it overflows. */
   static final double HEADROOM = 3.0;
+  /** Fewest pilot values of a group for bands around its limits. */
+  static final int MIN_PILOT_FOR_BANDS = 30;
   /** Fewest values a window is allowed to hold. */
   static final int MIN_HELD = 1_000;
   /** Distinct values the groups' counts hold in all, at most, shared by the counted columns. */
@@ -135,21 +137,22 @@ final class GroupTally implements Serializable {
   /**
    * The tally's windows, placed by the pilot: for each group the pilot saw and each column, the
    * quartile windows of {@link RankSearch#firstPlan} at {@value #BRACKET_ERRORS} standard errors,
-   * and for a column with Tukey fences ({@code iqrK} finite) the bands where the group's fences can
+   * and for a column with outlier limits the bands where the group's limits can
    * fall, so that the values after the group's capping or removal can be read off too. Columns
    * whose windows would pass {@code budget} values in all (taken in order) get none. Empty when
    * the pilot saw more than {@code maxGroups} groups: the group-wise figures are then all searched
    * after the plan.
    *
    * @param cols measured columns (projection positions) to tally
-   * @param iqrK per column, its Tukey k, or NaN for no fence bands
+   * @param outliers per column, its outlier settings (null: no limit bands)
    * @param countValues per column, whether each group counts its values (for a mode fill)
    * @param text categorical columns (table positions) whose group modes to tally
    * @param pilot the pilot's values per measured column, and its key hashes (empty: no pilot, the
    *     table is small enough that one window holds each group's values)
    * @param rows the table's rows
    */
-  static java.util.Optional<GroupTally> plan(ProfileLayout layout, int[] cols, NumericSteps[] validity, double[] iqrK,
+  static java.util.Optional<GroupTally> plan(ProfileLayout layout, int[] cols, NumericSteps[] validity,
+      dev.sluice.config.OutlierSettings[] outliers,
       boolean[] countValues, int[] text, RowScan.Pilot pilot, long rows, int maxGroups, int budget) {
     Map<Long, OrderWindows[]> planned = new HashMap<>();
     long[] keys = pilot.keys();
@@ -196,7 +199,7 @@ final class GroupTally implements Serializable {
         double d = n == 0 ? 1.0 : Math.min(1.0, BRACKET_ERRORS * 0.5 / Math.sqrt(n) + 2.0 / n);
         long perWindow = (long) Math.ceil(2 * d * expected);
         int cap = (int) Math.min(Integer.MAX_VALUE - 8, Math.max(MIN_HELD, HEADROOM * perWindow));
-        List<double[]> bands = Double.isFinite(iqrK[c]) ? fenceBands(sorted, iqrK[c], expected) : List.of();
+        List<double[]> bands = limitBands(sorted, outliers[c], expected);
         w[c] = new RankSearch(QUARTILES, cap, BRACKET_ERRORS).firstPlan(sorted, expected, bands);
         long inBands = 0;
         for (double[] b : bands) {
@@ -222,20 +225,81 @@ final class GroupTally implements Serializable {
   }
 
   /**
-   * The two ranges where a group's Tukey fences with multiplier k can fall while its quartiles lie
-   * in their pilot brackets (as the table-wide search's bands); none when a bracket is unbounded
-   * or the IQR could be zero.
+   * The two ranges where a group's outlier limits can fall while the figures they come from lie
+   * within {@value #BRACKET_ERRORS} standard errors of the pilot's: Tukey fences from the quartile
+   * brackets (as the table-wide search's bands); mean -/+ z sd from the pilot's mean and standard
+   * deviation with their standard errors (sd / sqrt(n) and, for normal data, sd / sqrt(2 (n - 1)));
+   * median -/+ limit MAD / 0.6745 from the median's bracket and the bracket of the distances from
+   * the pilot's median, widened by the median's. None when a bracket is unbounded, the spread could
+   * be zero or the pilot holds fewer than {@value #MIN_PILOT_FOR_BANDS} values. A limit that falls
+   * outside its band costs a search after the plan, never accuracy.
    */
-  private static List<double[]> fenceBands(double[] sorted, double k, long expected) {
-    if (sorted.length == 0) {
+  static List<double[]> limitBands(double[] sorted, dev.sluice.config.OutlierSettings o, long expected) {
+    int n = sorted.length;
+    if (o == null || n < MIN_PILOT_FOR_BANDS) {
       return List.of();
     }
-    double[] q1 = RankSearch.bracket(sorted, 0.25, expected, 1, BRACKET_ERRORS);
-    double[] q3 = RankSearch.bracket(sorted, 0.75, expected, 1, BRACKET_ERRORS);
-    if (!Double.isFinite(q1[0]) || !Double.isFinite(q3[1]) || !(q1[1] < q3[0])) {
+    double e = BRACKET_ERRORS;
+    double[] r;
+    switch (o.method()) {
+      case IQR -> {
+        double[] q1 = RankSearch.bracket(sorted, 0.25, expected, 1, e);
+        double[] q3 = RankSearch.bracket(sorted, 0.75, expected, 1, e);
+        if (!Double.isFinite(q1[0]) || !Double.isFinite(q3[1]) || !(q1[1] < q3[0])) {
+          return List.of();
+        }
+        r = dev.sluice.stats.Fences.tukeyRange(q1[0], q1[1], q3[0], q3[1], o.iqrK());
+      }
+      case ZSCORE -> {
+        ScaledMoments m = new ScaledMoments();
+        for (double x : sorted) {
+          m.add(x);
+        }
+        double sd = m.stddev();
+        if (!(sd > 0) || !Double.isFinite(sd)) {
+          return List.of();
+        }
+        double centre = e * sd / Math.sqrt(n);
+        double spread = e * sd / Math.sqrt(2.0 * (n - 1));
+        double z = o.zLimit();
+        double lowMean = m.mean() - centre;
+        double highMean = m.mean() + centre;
+        double lowSd = Math.max(0, sd - spread);
+        double highSd = sd + spread;
+        r = new double[] {lowMean - z * highSd, highMean - z * lowSd, lowMean + z * lowSd, highMean + z * highSd};
+      }
+      case MAD -> {
+        double[] med = RankSearch.bracket(sorted, 0.5, expected, 1, e);
+        if (!Double.isFinite(med[0]) || !Double.isFinite(med[1])) {
+          return List.of();
+        }
+        double centre = sorted[n / 2];
+        double[] distances = new double[n];
+        for (int i = 0; i < n; i++) {
+          distances[i] = Math.abs(sorted[i] - centre);
+        }
+        double[] mad = RankSearch.bracket(RankSearch.sorted(distances), 0.5, expected, 1, e);
+        double shift = med[1] - med[0];
+        if (!Double.isFinite(mad[0]) || !Double.isFinite(mad[1])) {
+          return List.of();
+        }
+        double k = o.madLimit() / dev.sluice.stats.Fences.MODIFIED_Z_CONSTANT;
+        double lowMad = Math.max(0, mad[0] - shift);
+        double highMad = mad[1] + shift;
+        r = new double[] {med[0] - k * highMad, med[1] - k * lowMad, med[0] + k * lowMad, med[1] + k * highMad};
+      }
+      default -> {
+        return List.of();
+      }
+    }
+    for (int i = 0; i < 4; i++) {
+      // As published, limits keep 12 significant digits: a little slack keeps them inside.
+      double slack = Math.abs(r[i]) * 1e-9 + Double.MIN_NORMAL;
+      r[i] += i % 2 == 0 ? -slack : slack;
+    }
+    if (!(r[0] <= r[1] && r[2] <= r[3]) || !Double.isFinite(r[0]) || !Double.isFinite(r[3])) {
       return List.of();
     }
-    double[] r = dev.sluice.stats.Fences.tukeyRange(q1[0], q1[1], q3[0], q3[1], k);
     return List.of(new double[] {r[0], r[1]}, new double[] {r[2], r[3]});
   }
 

@@ -287,15 +287,15 @@ public final class Profiler {
       }
     }
     int[] text = groupedText.stream().mapToInt(name -> java.util.Arrays.asList(layout.names).indexOf(name)).toArray();
-    double[] iqrK = new double[cols.size()];
+    dev.sluice.config.OutlierSettings[] outliers = new dev.sluice.config.OutlierSettings[cols.size()];
     boolean[] countValues = new boolean[cols.size()];
-    for (int c = 0; c < iqrK.length; c++) {
+    for (int c = 0; c < outliers.length; c++) {
       ColumnSettings cs = settings.column(layout.names[measured[cols.get(c)]]);
-      iqrK[c] = cs.outliers().method() == OutlierMethod.IQR ? cs.outliers().iqrK() : Double.NaN;
+      outliers[c] = cs.outliers();
       countValues[c] = cs.missing().strategy() == ImputeStrategy.MODE;
     }
     return GroupTally.plan(layout, cols.stream().mapToInt(Integer::intValue).toArray(),
-        steps.toArray(new NumericSteps[0]), iqrK, countValues, text, pilot, rows, settings.groups().maxGroups(),
+        steps.toArray(new NumericSteps[0]), outliers, countValues, text, pilot, rows, settings.groups().maxGroups(),
         settings.quantiles().maxHeldValues()).orElse(null);
   }
 

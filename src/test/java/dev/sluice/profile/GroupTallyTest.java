@@ -231,6 +231,59 @@ class GroupTallyTest {
     }
   }
 
+  /**
+   * Near-normal values of our own scenario (load per pallet, two depots on different scales): the
+   * sum of twelve scattered uniforms minus six, about N(0, 1), so that z-score and MAD limits
+   * fall inside the values' natural tails.
+   */
+  private static double[] nearNormal(int n, double mean, double sd) {
+    long[] primes = {7919, 104729, 1299709, 15485863, 179424673, 2038074743, 49979687, 86028121, 32452843,
+        67867967, 961748927, 1000000007};
+    double[] v = new double[n];
+    for (int i = 0; i < n; i++) {
+      double sum = 0;
+      for (long p : primes) {
+        sum += ((i + 1) * p % 100_003) / 100_003.0;
+      }
+      v[i] = mean + sd * (sum - 6);
+    }
+    return v;
+  }
+
+  @Test
+  void fillsAfterEachGroupsZScoreOrMadLimitsAreReadOffPassOnesWindows(SparkSession spark) {
+    Map<String, double[]> values = new LinkedHashMap<>();
+    values.put("A", nearNormal(10_000, 40, 6));
+    values.put("B", nearNormal(6_000, 900, 120));
+    Dataset<Row> data = table(spark, values);
+    for (String method : List.of("zscore", "mad")) {
+      for (String[] step : new String[][] {{"cap", "mean"}, {"set-missing", "mean"}, {"set-missing", "median"}}) {
+        // z = 2.5 and a modified z of 2.5 (common practice is 3 and 3.5) put more values beyond.
+        Settings settings = settings("defaults.outliers.method=" + method, "defaults.outliers.z-limit=2.5",
+            "defaults.outliers.mad-limit=2.5", "defaults.outliers.action=" + step[0],
+            "defaults.missing.strategy=" + step[1]);
+        Sluice.Fit fit = Sluice.fit(data, settings, List.of());
+        ColumnPlan dwell = fit.plan().column("dwell hours").orElseThrow();
+        for (String depot : List.of("A", "B")) {
+          GroupFigures.Group g = figures(fit.plan().columns(), "dwell hours").stream()
+              .filter(x -> x.key().equals(List.of(depot))).findFirst().orElseThrow();
+          double[] v = values.get(depot);
+          double[] after = step[0].equals("cap")
+              ? Arrays.stream(v).map(x -> Math.max(g.lower(), Math.min(g.upper(), x))).toArray()
+              : Arrays.stream(v).filter(x -> x >= g.lower() && x <= g.upper()).toArray();
+          String what = method + " " + step[0] + " " + step[1] + " " + depot;
+          assertThat(Arrays.stream(v).filter(x -> x < g.lower() || x > g.upper()).count()).as(what + ": beyond")
+              .isPositive();
+          double expected = step[1].equals("mean") ? new DescriptiveStatistics(after).getMean() : r7(after, 0.5);
+          double fromPassOne = GroupPass.fillFromPassOne(dwell, g,
+              fit.profile().groups().columns().get("dwell hours").get(List.of(depot)));
+          assertThat(fromPassOne).as(what).isCloseTo(expected, within(1e-9 * Math.abs(expected)));
+          assertThat(g.fill()).as(what).isCloseTo(expected, within(1e-9 * Math.abs(expected)));
+        }
+      }
+    }
+  }
+
   @Test
   void eachGroupsMadIsFoundInThePassOfTheTableWideMad(SparkSession spark) {
     Map<String, double[]> values = values(false);
@@ -337,7 +390,7 @@ class GroupTallyTest {
       keys[i] = 7;
     }
     NumericSteps[] valid = {NumericSteps.validity(null, null)};
-    GroupTally tally = GroupTally.plan(layout, new int[] {0}, valid, new double[] {Double.NaN}, new boolean[1], new int[0], new RowScan.Pilot(new double[][] {pilot}, keys),
+    GroupTally tally = GroupTally.plan(layout, new int[] {0}, valid, new dev.sluice.config.OutlierSettings[1], new boolean[1], new int[0], new RowScan.Pilot(new double[][] {pilot}, keys),
         1_000_000, 10, 8_000_000).orElseThrow();
     // The pass then finds depot 7's values far above its windows; depot 8, unseen, has 10 values.
     GroupTally part1 = tally.emptyCopy();
