@@ -50,6 +50,12 @@ final class GroupTally implements Serializable {
   static final double BRACKET_ERRORS = 4.0;
   /** A window holds up to this many times the values it is expected to, before it overflows. */
   static final double HEADROOM = 3.0;
+  /**
+   * Standard errors either side of the pilot's mean and standard deviation that the bands around
+   * z-score limits cover: twice {@link #BRACKET_ERRORS}, as a few extreme values move both, and
+   * bands in the tails hold few values.
+   */
+  static final double TAIL_ERRORS = 2 * BRACKET_ERRORS;
   /** Fewest pilot values of a group for bands around its limits. */
   static final int MIN_PILOT_FOR_BANDS = 30;
   /** Fewest values a window is allowed to hold. */
@@ -226,11 +232,11 @@ final class GroupTally implements Serializable {
 
   /**
    * The two ranges where a group's outlier limits can fall while the figures they come from lie
-   * within {@value #BRACKET_ERRORS} standard errors of the pilot's: Tukey fences from the quartile
-   * brackets (as the table-wide search's bands); mean -/+ z sd from the pilot's mean and standard
-   * deviation with their standard errors (sd / sqrt(n) and, for normal data, sd / sqrt(2 (n - 1)));
-   * median -/+ limit MAD / 0.6745 from the median's bracket and the bracket of the distances from
-   * the pilot's median, widened by the median's. None when a bracket is unbounded, the spread could
+   * near the pilot's: Tukey fences from the quartile brackets ({@value #BRACKET_ERRORS} standard
+   * errors, as the table-wide search's bands); mean -/+ z sd from the pilot's mean and standard
+   * deviation, each within {@link #TAIL_ERRORS} standard errors; median -/+ limit MAD / 0.6745
+   * from the median's bracket and the bracket of the distances from the pilot's median, widened
+   * by the median's. None when a bracket is unbounded, the spread could
    * be zero or the pilot holds fewer than {@value #MIN_PILOT_FOR_BANDS} values. A limit that falls
    * outside its band costs a search after the plan, never accuracy.
    */
@@ -259,8 +265,16 @@ final class GroupTally implements Serializable {
         if (!(sd > 0) || !Double.isFinite(sd)) {
           return List.of();
         }
-        double centre = e * sd / Math.sqrt(n);
-        double spread = e * sd / Math.sqrt(2.0 * (n - 1));
+        // The standard error of a standard deviation grows with the tails: sd sqrt((kurtosis - 1) / 4n),
+        // sd / sqrt(2n) for normal data (kurtosis 3), taken as the least.
+        double fourth = 0;
+        for (double x : sorted) {
+          double u = (x - m.mean()) / sd;
+          fourth += u * u * u * u;
+        }
+        double kurtosis = fourth / n;
+        double centre = TAIL_ERRORS * sd / Math.sqrt(n);
+        double spread = TAIL_ERRORS * sd * Math.sqrt(Math.max(kurtosis - 1, 2.0) / (4.0 * n));
         double z = o.zLimit();
         double lowMean = m.mean() - centre;
         double highMean = m.mean() + centre;
