@@ -188,23 +188,29 @@ class GroupTallyTest {
           GroupFigures.Group g = figures(fit.plan().columns(), "dwell hours").stream()
               .filter(x -> x.key().equals(List.of(depot))).findFirst().orElseThrow();
           double[] v = values(false).get(depot);
-          // The group's values after its own step: capped at, or removed beyond, its fences.
-          double[] after = action.equals("cap")
-              ? Arrays.stream(v).map(x -> Math.max(g.lower(), Math.min(g.upper(), x))).toArray()
-              : Arrays.stream(v).filter(x -> x >= g.lower() && x <= g.upper()).toArray();
           // Exactly the planted extremes lie beyond the group's fences.
           assertThat(Arrays.stream(v).filter(x -> x < g.lower() || x > g.upper()).count()).isEqualTo(v.length / 1_000);
-          double expected = strategy.equals("mean") ? new DescriptiveStatistics(after).getMean() : r7(after, 0.5);
-          String what = action + " " + strategy + " " + depot;
-          // Pass 1 alone gives it (the search after the plan is not needed) ...
-          double fromPassOne = GroupPass.fillFromPassOne(dwell, g,
-              fit.profile().groups().columns().get("dwell hours").get(List.of(depot)));
-          assertThat(fromPassOne).as(what).isCloseTo(expected, within(1e-9 * Math.abs(expected)));
-          // ... and the plan holds it (12 significant digits).
-          assertThat(g.fill()).as(what).isCloseTo(expected, within(1e-9 * Math.abs(expected)));
+          checkFill(fit, dwell, g, v, action, strategy, action + " " + strategy + " " + depot);
         }
       }
     }
+  }
+
+  /**
+   * The group's fill equals the mean or median (Commons Math) of its values after its own step,
+   * capped at or removed beyond its limits, both as pass 1 alone gives it (no search after the
+   * plan needed) and as the plan holds it (12 significant digits).
+   */
+  private static void checkFill(Sluice.Fit fit, ColumnPlan column, GroupFigures.Group g, double[] v, String action,
+      String strategy, String what) {
+    double[] after = action.equals("cap")
+        ? Arrays.stream(v).map(x -> Math.max(g.lower(), Math.min(g.upper(), x))).toArray()
+        : Arrays.stream(v).filter(x -> x >= g.lower() && x <= g.upper()).toArray();
+    double expected = strategy.equals("mean") ? new DescriptiveStatistics(after).getMean() : r7(after, 0.5);
+    double fromPassOne = GroupPass.fillFromPassOne(column, g,
+        fit.profile().groups().columns().get(column.name()).get(g.key()));
+    assertThat(fromPassOne).as(what).isCloseTo(expected, within(1e-9 * Math.abs(expected)));
+    assertThat(g.fill()).as(what).isCloseTo(expected, within(1e-9 * Math.abs(expected)));
   }
 
   @Test
@@ -268,17 +274,10 @@ class GroupTallyTest {
           GroupFigures.Group g = figures(fit.plan().columns(), "dwell hours").stream()
               .filter(x -> x.key().equals(List.of(depot))).findFirst().orElseThrow();
           double[] v = values.get(depot);
-          double[] after = step[0].equals("cap")
-              ? Arrays.stream(v).map(x -> Math.max(g.lower(), Math.min(g.upper(), x))).toArray()
-              : Arrays.stream(v).filter(x -> x >= g.lower() && x <= g.upper()).toArray();
           String what = method + " " + step[0] + " " + step[1] + " " + depot;
           assertThat(Arrays.stream(v).filter(x -> x < g.lower() || x > g.upper()).count()).as(what + ": beyond")
               .isPositive();
-          double expected = step[1].equals("mean") ? new DescriptiveStatistics(after).getMean() : r7(after, 0.5);
-          double fromPassOne = GroupPass.fillFromPassOne(dwell, g,
-              fit.profile().groups().columns().get("dwell hours").get(List.of(depot)));
-          assertThat(fromPassOne).as(what).isCloseTo(expected, within(1e-9 * Math.abs(expected)));
-          assertThat(g.fill()).as(what).isCloseTo(expected, within(1e-9 * Math.abs(expected)));
+          checkFill(fit, dwell, g, v, step[0], step[1], what);
         }
       }
     }
