@@ -53,6 +53,19 @@ public record GroupMeasures(List<String> by, Map<String, Map<List<String>, Measu
    */
   public record Mode(long values, String mode) {}
 
+  /** Group keys in order, key column by key column, a null value first. */
+  public static int compareKeys(List<String> a, List<String> b) {
+    for (int i = 0; i < a.size(); i++) {
+      String x = a.get(i);
+      String y = b.get(i);
+      int c = x == null ? (y == null ? 0 : -1) : y == null ? 1 : x.compareTo(y);
+      if (c != 0) {
+        return c;
+      }
+    }
+    return 0;
+  }
+
   /** Nothing settled: every column in {@code columns} left to the later search, for one reason. */
   static GroupMeasures none(List<String> by, List<String> columns, String reason) {
     Map<String, String> unsettled = new java.util.LinkedHashMap<>();

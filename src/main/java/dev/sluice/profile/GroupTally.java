@@ -509,19 +509,12 @@ final class GroupTally implements Serializable {
       }
       return new GroupMeasures(by, settled, modes, unsettled);
     }
-    Integer[] order = new Integer[slots];
-    for (int s = 0; s < slots; s++) {
-      order[s] = s;
-    }
-    Arrays.sort(order, (a, b) -> compareKeys(keys[a], keys[b]));
+    int[] order = order();
     for (int c = 0; c < cols.length; c++) {
       Map<List<String>, GroupMeasures.Measure> groups = new LinkedHashMap<>();
       String missed = null;
       for (int s : order) {
-        ScaledMoments m = new ScaledMoments();
-        for (ScaledMoments r : moments[s][c]) {
-          m.merge(r);
-        }
+        ScaledMoments m = merged(s, c);
         double[] q = new double[QUARTILES.length];
         Arrays.fill(q, Double.NaN);
         OrderWindows w = windows[s][c];
@@ -568,20 +561,27 @@ final class GroupTally implements Serializable {
 
   /** Each group's share of tallied column {@code c}, in key order (of the merged tally). */
   List<Part> parts(int c) {
-    Integer[] order = new Integer[slots];
-    for (int s = 0; s < slots; s++) {
-      order[s] = s;
-    }
-    Arrays.sort(order, (a, b) -> compareKeys(keys[a], keys[b]));
     List<Part> out = new ArrayList<>();
-    for (int s : order) {
-      ScaledMoments m = new ScaledMoments();
-      for (ScaledMoments r : moments[s][c]) {
-        m.merge(r);
-      }
-      out.add(new Part(Arrays.asList(keys[s]), hashes[s], m, windows[s][c]));
+    for (int s : order()) {
+      out.add(new Part(Arrays.asList(keys[s]), hashes[s], merged(s, c), windows[s][c]));
     }
     return out;
+  }
+
+  /** The slots in key order (as the group search orders its groups). */
+  private int[] order() {
+    return java.util.stream.IntStream.range(0, slots).boxed()
+        .sorted((a, b) -> GroupMeasures.compareKeys(Arrays.asList(keys[a]), Arrays.asList(keys[b])))
+        .mapToInt(Integer::intValue).toArray();
+  }
+
+  /** The moments of slot s's values of column c, over all regions of its windows. */
+  private ScaledMoments merged(int s, int c) {
+    ScaledMoments m = new ScaledMoments();
+    for (ScaledMoments r : moments[s][c]) {
+      m.merge(r);
+    }
+    return m;
   }
 
   /** Each group's key hash, by key (of the merged tally). */
@@ -591,18 +591,5 @@ final class GroupTally implements Serializable {
       out.put(Arrays.asList(keys[s]), hashes[s]);
     }
     return out;
-  }
-
-  /** Keys in order, a null value first (as the group search orders them). */
-  static int compareKeys(String[] a, String[] b) {
-    for (int i = 0; i < a.length; i++) {
-      String x = a[i];
-      String y = b[i];
-      int c = x == null ? (y == null ? 0 : -1) : y == null ? 1 : x.compareTo(y);
-      if (c != 0) {
-        return c;
-      }
-    }
-    return 0;
   }
 }

@@ -205,19 +205,19 @@ public final class Profiler {
     List<SearchPass.Target> targets = new ArrayList<>();
     List<String> names = new ArrayList<>();
     List<GroupTally.Part> parts = new ArrayList<>();
-    List<String> left = new ArrayList<>();
+    Map<String, List<GroupTally.Part>> left = new LinkedHashMap<>();
     for (int c = 0; c < grouped.size(); c++) {
       String name = grouped.get(c);
       if (!groups.unsettled().containsKey(name)) {
         continue;
       }
-      int j = java.util.stream.IntStream.range(0, measured.length)
-          .filter(k -> layout.names[measured[k]].equals(name)).findFirst().orElseThrow();
-      List<GroupTally.Part> own = tally.parts(c).stream().filter(p -> p.moments().count() >= minValues).toList();
+      int j = measuredIndex(layout, measured, name);
+      List<GroupTally.Part> all = tally.parts(c);
+      List<GroupTally.Part> own = all.stream().filter(p -> p.moments().count() >= minValues).toList();
       if (targets.size() + own.size() > MAX_GROUP_TARGETS) {
         continue;
       }
-      left.add(name);
+      left.put(name, all);
       for (GroupTally.Part p : own) {
         targets.add(new SearchPass.Target(j, validity[j], false, Double.NaN, layout.measured, p.hash()));
         names.add(name);
@@ -239,15 +239,7 @@ public final class Profiler {
         first.add(null);
       } else {
         SearchPass.Target target = targets.get(t);
-        double[] values = new double[pilot.keys().length];
-        int n = 0;
-        for (int r = 0; r < values.length; r++) {
-          double v = pilot.keys()[r] == p.hash() ? target.value(pilot.values()[target.at()][r]) : Double.NaN;
-          if (!Double.isNaN(v)) {
-            values[n++] = v;
-          }
-        }
-        first.add(search.firstPlan(java.util.Arrays.copyOf(values, n), p.moments().count()));
+        first.add(search.firstPlan(target.pilotValues(pilot.values()[target.at()], pilot.keys()), p.moments().count()));
       }
       searches.add(search);
     }
@@ -258,9 +250,10 @@ public final class Profiler {
     }
     Map<String, Map<List<String>, GroupMeasures.Measure>> columns = new LinkedHashMap<>(groups.columns());
     Map<String, String> unsettled = new LinkedHashMap<>(groups.unsettled());
-    for (String name : left) {
+    for (Map.Entry<String, List<GroupTally.Part>> e : left.entrySet()) {
+      String name = e.getKey();
       Map<List<String>, GroupMeasures.Measure> byKey = new LinkedHashMap<>();
-      for (GroupTally.Part p : tally.parts(grouped.indexOf(name))) {
+      for (GroupTally.Part p : e.getValue()) {
         // A group with too few values has no search: NaN quartiles, as in pass 1.
         double[] q = found.getOrDefault(name, Map.of()).getOrDefault(p.hash(),
             new double[] {Double.NaN, Double.NaN, Double.NaN});
@@ -273,18 +266,25 @@ public final class Profiler {
     return new GroupMeasures(groups.by(), columns, groups.modes(), unsettled);
   }
 
+  /** The position among the measured columns (projection order) of the column {@code name}. */
+  private static int measuredIndex(ProfileLayout layout, int[] measured, String name) {
+    for (int j = 0; j < measured.length; j++) {
+      if (layout.names[measured[j]].equals(name)) {
+        return j;
+      }
+    }
+    throw new IllegalArgumentException("No measured column " + name);
+  }
+
   /** The group tally of pass 1 over the columns in {@code grouped} and {@code groupedText}, or null. */
   private static GroupTally groupTally(ProfileLayout layout, int[] measured, NumericSteps[] validity,
       List<String> grouped, List<String> groupedText, RowScan.Pilot pilot, long rows, Settings settings) {
     List<Integer> cols = new ArrayList<>();
     List<NumericSteps> steps = new ArrayList<>();
     for (String name : grouped) {
-      for (int j = 0; j < measured.length; j++) {
-        if (layout.names[measured[j]].equals(name)) {
-          cols.add(j);
-          steps.add(validity[j]);
-        }
-      }
+      int j = measuredIndex(layout, measured, name);
+      cols.add(j);
+      steps.add(validity[j]);
     }
     int[] text = groupedText.stream().mapToInt(name -> java.util.Arrays.asList(layout.names).indexOf(name)).toArray();
     dev.sluice.config.OutlierSettings[] outliers = new dev.sluice.config.OutlierSettings[cols.size()];
@@ -428,32 +428,17 @@ public final class Profiler {
     List<OrderWindows> first = new ArrayList<>();
     for (int k = 0; k < groupTargets.size(); k++) {
       SearchPass.Target t = groupTargets.get(k);
-      double[] distances = new double[pilot[t.at()].length];
-      int n = 0;
-      for (int r = 0; r < distances.length; r++) {
-        double d = keys.pilotKeys()[r] == t.key() ? t.value(pilot[t.at()][r]) : Double.NaN;
-        if (!Double.isNaN(d)) {
-          distances[n++] = d;
-        }
-      }
       RankSearch search = new RankSearch(new double[] {0.5}, perWindow);
       long usable = keys.groups().columns().get(groupColumns.get(k)).get(groupKeys.get(k)).usable();
-      first.add(search.firstPlan(java.util.Arrays.copyOf(distances, n), usable));
+      first.add(search.firstPlan(t.pilotValues(pilot[t.at()], keys.pilotKeys()), usable));
       targets.add(t);
       searches.add(search);
     }
     for (int j : cols) {
       SearchPass.Target t = new SearchPass.Target(j, validity[j], false, quartiles.get(j).quantiles()[1]);
-      double[] distances = new double[pilot[j].length];
-      int n = 0;
-      for (double x : pilot[j]) {
-        double d = t.value(x);
-        if (!Double.isNaN(d)) {
-          distances[n++] = d;
-        }
-      }
+      double[] distances = t.pilotValues(pilot[j], null);
       RankSearch search = new RankSearch(new double[] {0.5}, perWindow);
-      first.add(search.firstPlan(java.util.Arrays.copyOf(distances, n), expected(rows, n, pilot[j].length)));
+      first.add(search.firstPlan(distances, expected(rows, distances.length, pilot[j].length)));
       targets.add(t);
       searches.add(search);
     }

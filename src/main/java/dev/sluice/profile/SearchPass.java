@@ -34,6 +34,23 @@ public final class SearchPass implements RowScan.Accumulator<SearchPass> {
       this(at, steps, treated, centre, -1, 0L);
     }
 
+    /**
+     * The values this search counts among a pilot's: {@code column} holds the pilot's raw values
+     * of the column at {@link #at}, {@code keys} its rows' key hashes (read only by a group's
+     * target; may be null otherwise).
+     */
+    public double[] pilotValues(double[] column, long[] keys) {
+      double[] out = new double[column.length];
+      int n = 0;
+      for (int r = 0; r < column.length; r++) {
+        double v = keyAt >= 0 && keys[r] != key ? Double.NaN : value(column[r]);
+        if (!Double.isNaN(v)) {
+          out[n++] = v;
+        }
+      }
+      return java.util.Arrays.copyOf(out, n);
+    }
+
     /** The value of raw x that the search counts, or NaN for none. */
     public double value(double x) {
       double v = treated ? steps.treated(x) : steps.valid(x);
@@ -43,9 +60,13 @@ public final class SearchPass implements RowScan.Accumulator<SearchPass> {
 
   private final Target[] targets;
   private final OrderWindows[] windows;
-  /** The targets over every row; those of each group key, by key (one key column for all). */
+  /**
+   * The targets over every row; the group keys in ascending order, and each one's targets (one
+   * key column for all; a sorted array, so that the per-row lookup boxes nothing).
+   */
   private final int[] everyRow;
-  private final Map<Long, int[]> byKey;
+  private final long[] keys;
+  private final int[][] keyTargets;
   private final int keyAt;
 
   SearchPass(Target[] targets, OrderWindows[] windows) {
@@ -66,8 +87,11 @@ public final class SearchPass implements RowScan.Accumulator<SearchPass> {
       }
     }
     this.everyRow = every.stream().mapToInt(Integer::intValue).toArray();
-    this.byKey = new HashMap<>();
-    keyed.forEach((k, list) -> byKey.put(k, list.stream().mapToInt(Integer::intValue).toArray()));
+    this.keys = keyed.keySet().stream().mapToLong(Long::longValue).sorted().toArray();
+    this.keyTargets = new int[keys.length][];
+    for (int k = 0; k < keys.length; k++) {
+      keyTargets[k] = keyed.get(keys[k]).stream().mapToInt(Integer::intValue).toArray();
+    }
     this.keyAt = at;
   }
 
@@ -85,9 +109,9 @@ public final class SearchPass implements RowScan.Accumulator<SearchPass> {
       count(t, row);
     }
     if (keyAt >= 0) {
-      int[] group = byKey.get(row.getLong(keyAt));
-      if (group != null) {
-        for (int t : group) {
+      int k = java.util.Arrays.binarySearch(keys, row.getLong(keyAt));
+      if (k >= 0) {
+        for (int t : keyTargets[k]) {
           count(t, row);
         }
       }

@@ -584,7 +584,7 @@ public final class GroupPass {
           + " (groups.max-groups); group by fewer or coarser columns, or raise the limit");
     }
     List<Row> sorted = new ArrayList<>(rows);
-    sorted.sort(Comparator.comparing(r -> key(r, by.size()), GroupPass::compareKeys));
+    sorted.sort(Comparator.comparing(r -> key(r, by.size()), GroupMeasures::compareKeys));
     return sorted;
   }
 
@@ -596,18 +596,6 @@ public final class GroupPass {
     return Arrays.asList(k);
   }
 
-  /** Keys in order, a null value first. */
-  static int compareKeys(List<String> a, List<String> b) {
-    for (int i = 0; i < a.size(); i++) {
-      String x = a.get(i);
-      String y = b.get(i);
-      int c = x == null ? (y == null ? 0 : -1) : y == null ? 1 : x.compareTo(y);
-      if (c != 0) {
-        return c;
-      }
-    }
-    return 0;
-  }
 
   /** True where the row belongs to the group with this key (a null key value matches a null). */
   static Column inGroup(List<String> by, List<String> key) {

@@ -70,20 +70,20 @@ public final class Treatments {
   }
 
   /**
-   * The column's number for each row's group: {@code element_at(array(tableWide, v1, v2, ...),
+   * The column's figure for each row's group: {@code element_at(array(tableWide, v1, v2, ...),
    * _sluice_group_index + 1)}, reading the working column that {@link #withGroupIndex} adds; the
    * literal without groups. (Written inline, the index's CASE WHEN would be evaluated again for
    * every limit and fill of every column: three times slower on the benchmark table.)
    */
-  private static Column perGroup(ColumnPlan cp, java.util.function.Function<GroupFigures.Group, Double> own,
-      double tableWide) {
+  private static <T> Column perGroup(ColumnPlan cp, java.util.function.Function<GroupFigures.Group, T> own,
+      T tableWide) {
     if (cp.groups() == null || cp.groups().groups().stream().allMatch(g -> own.apply(g) == null)) {
       return lit(tableWide);
     }
     List<Column> values = new ArrayList<>();
     values.add(lit(tableWide));
     for (GroupFigures.Group g : cp.groups().groups()) {
-      Double v = own.apply(g);
+      T v = own.apply(g);
       values.add(lit(v == null ? tableWide : v));
     }
     return functions.element_at(functions.array(values.toArray(new Column[0])), functions.col(GROUP_INDEX).plus(1));
@@ -176,16 +176,7 @@ public final class Treatments {
     if (tableWide == null) {
       return c;
     }
-    Column fill = lit(tableWide);
-    if (cp.groups() != null && cp.groups().groups().stream().anyMatch(g -> g.fillText() != null)) {
-      List<Column> values = new ArrayList<>();
-      values.add(lit(tableWide));
-      for (GroupFigures.Group g : cp.groups().groups()) {
-        values.add(lit(g.fillText() == null ? tableWide : g.fillText()));
-      }
-      fill = functions.element_at(functions.array(values.toArray(new Column[0])), functions.col(GROUP_INDEX).plus(1));
-    }
-    return coalesce(c, fill.cast(sparkType));
+    return coalesce(c, perGroup(cp, GroupFigures.Group::fillText, tableWide).cast(sparkType));
   }
 
   /** Added column of action flag: true where the valid value lies beyond the limits. */
