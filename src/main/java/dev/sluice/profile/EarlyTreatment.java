@@ -42,6 +42,10 @@ final class EarlyTreatment implements Serializable {
   boolean overflowed;
   private transient double[] values;
   private transient byte[] states;
+  /** Scratch of {@link #addColumns}: each column's states, the rows kept aside, the rows placed. */
+  private transient byte[][] columnStates;
+  private transient boolean[] asideRow;
+  private transient int[] placedRows;
 
   /**
    * @param lowBand per column {low, high} of the lower limit's band, or null for no lower limit
@@ -117,6 +121,68 @@ final class EarlyTreatment implements Serializable {
       states[s] = state;
     }
     comoments.add(values, states);
+  }
+
+  /**
+   * Adds rows 0 .. n - 1 of a batch given column by column ({@code raw[s][r]}, NaN for null): the
+   * same co-moments, rows kept aside and counts as {@link #add} on each row in order, with loops
+   * down each column instead of a call per row.
+   */
+  void addColumns(double[][] raw, int n) {
+    int p = raw.length;
+    if (columnStates == null || columnStates[0].length < n) {
+      int size = Math.max(n, 4096);
+      columnStates = new byte[p][size];
+      asideRow = new boolean[size];
+      placedRows = new int[size];
+    }
+    java.util.Arrays.fill(asideRow, 0, n, false);
+    for (int s = 0; s < p; s++) {
+      placeColumn(s, raw[s], columnStates[s], n);
+    }
+    int placed = 0;
+    double[] row = new double[p];
+    for (int r = 0; r < n; r++) {
+      if (!asideRow[r]) {
+        placedRows[placed++] = r;
+        continue;
+      }
+      for (int s = 0; s < p; s++) {
+        row[s] = raw[s][r];
+      }
+      keepAside(row);
+    }
+    // A value in state VALUE is its raw value: the validity step keeps a valid value as it is.
+    comoments.addColumns(raw, columnStates, placedRows, placed);
+  }
+
+  /**
+   * {@link #place} of the valid value of each of the first n entries of column s, into {@code
+   * states}; a row with an entry inside a band is marked in {@link #asideRow}.
+   */
+  private void placeColumn(int s, double[] raw, byte[] states, int n) {
+    NumericSteps steps = validity[s];
+    boolean leave = mode[s] == NumericSteps.Action.LEAVE;
+    // Raw values in [kept, keptTop] are finite, valid and kept as they are: the common case, and
+    // the only one tested for most values. The rest go through place.
+    double kept = Math.max(-Double.MAX_VALUE, steps.validMin());
+    double keptTop = Math.min(Double.MAX_VALUE, steps.validMax());
+    if (!leave) {
+      kept = Math.max(kept, Math.max(lowTop[s], lowEdge[s]));
+      keptTop = Math.min(keptTop, Math.min(highBottom[s], highEdge[s]));
+    }
+    for (int r = 0; r < n; r++) {
+      double x = raw[r];
+      if (x >= kept && x <= keptTop) {
+        states[r] = CoMoments.VALUE;
+        continue;
+      }
+      byte state = place(s, steps.valid(x));
+      if (state == ASIDE) {
+        asideRow[r] = true;
+      }
+      states[r] = state;
+    }
   }
 
   /** Whether {@link #add} would keep this row aside: one of its valid values is inside a band. */

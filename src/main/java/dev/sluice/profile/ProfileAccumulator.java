@@ -61,6 +61,7 @@ final class ProfileAccumulator implements RowScan.Accumulator<ProfileAccumulator
   private transient double[][] batchValues;
   private transient boolean[][] batchNulls;
   private transient Batches.Tally tally;
+  private transient RowSample.Hasher hasher;
   /** Most distinct sets of columns missing together that are counted before giving up. */
   static final int PATTERNS = 10_000;
   /** Per tracked column (table order): its measured index, or -1 for a categorical column. */
@@ -291,12 +292,28 @@ final class ProfileAccumulator implements RowScan.Accumulator<ProfileAccumulator
     }
     togetherInBatch(batch, n);
     if (sample != null || early != null) {
-      double[] row = sampleRow();
-      for (int r = 0; r < n; r++) {
-        for (int s = 0; s < sampled.length; s++) {
-          row[s] = batchValues[sampled[s]][r];
+      double[][] columns = new double[sampled.length][];
+      for (int s = 0; s < sampled.length; s++) {
+        columns[s] = batchValues[sampled[s]];
+      }
+      // As offerRow on each row, column by column: only rows under the cut reach the sample.
+      if (sample != null) {
+        if (hasher == null) {
+          hasher = new RowSample.Hasher();
         }
-        offerRow();
+        long[] hashes = hasher.of(columns, n);
+        double[] row = sampleRow();
+        for (int r = 0; r < n; r++) {
+          if (hashes[r] < sampleCut) {
+            for (int s = 0; s < sampled.length; s++) {
+              row[s] = columns[s][r];
+            }
+            sample.add(row);
+          }
+        }
+      }
+      if (early != null) {
+        early.addColumns(columns, n);
       }
     }
   }

@@ -81,6 +81,9 @@ public final class CoMoments implements Serializable {
   private transient double[][] block;
   private transient double[] u;
   private transient byte[] missingStates;
+  /** Scratch of {@link #addColumns}: one row's states, and which rows of a block hold a constant. */
+  private transient byte[] rowStates;
+  private transient boolean[] constantRow;
   private transient int pending;
   private static final int BLOCK = 64;
 
@@ -247,6 +250,87 @@ public final class CoMoments implements Serializable {
     if (pending == BLOCK) {
       flush();
     }
+  }
+
+  /**
+   * Adds rows given column by column: entry j of row r is {@code values[j][r]} in state {@code
+   * states[j][r]}, as {@link #add(double[], byte[])} takes a row. The rows added are {@code
+   * which[0 .. count - 1]}, in that order. The sums come out exactly as if each of those rows had
+   * been added with {@link #add(double[], byte[])} in the same order (the same additions, in the
+   * same order, into each sum), but a batch of rows costs much less: the per-row checks and calls
+   * become loops down each column. This is a per-value path: the entries are not checked, so a
+   * caller passes only finite values in state VALUE and known states (the value of an entry in a
+   * constant state is ignored, whatever it is).
+   *
+   * @throws IllegalArgumentException for arrays of the wrong number of columns
+   */
+  public void addColumns(double[][] values, byte[][] states, int[] which, int count) {
+    if (values.length != p || states.length != p) {
+      throw new IllegalArgumentException(
+          "Cannot add rows of " + values.length + " columns to " + p + " columns");
+    }
+    if (block == null) {
+      block = new double[p][BLOCK];
+      u = new double[p];
+    }
+    if (rowStates == null) {
+      rowStates = new byte[p];
+      constantRow = new boolean[BLOCK];
+    }
+    int done = 0;
+    while (done < count) {
+      int m = Math.min(BLOCK - pending, count - done);
+      java.util.Arrays.fill(constantRow, 0, m, false);
+      for (int j = 0; j < p; j++) {
+        centre(j, values[j], states[j], which, done, m);
+      }
+      for (int t = 0; t < m; t++) {
+        if (constantRow[t]) {
+          int r = which[done + t];
+          for (int k = 0; k < p; k++) {
+            u[k] = block[k][pending + t];
+            rowStates[k] = states[k][r];
+          }
+          addConstants(rowStates);
+        }
+      }
+      rows += m;
+      pending += m;
+      done += m;
+      if (pending == BLOCK) {
+        flush();
+      }
+    }
+  }
+
+  /**
+   * Block entries of column j for rows which[from .. from + m - 1], at {@code pending}: the centred,
+   * scaled value, or 0 for an entry in a constant state (its row then marked in constantRow).
+   */
+  private void centre(int j, double[] x, byte[] st, int[] which, int from, int m) {
+    double[] b = block[j];
+    double scale = scales[j];
+    double shift = centres[j] * scales[j];
+    double su = sumU[j];
+    double su2 = sumU2[j];
+    int constants = 0;
+    for (int t = 0; t < m; t++) {
+      int r = which[from + t];
+      double d = 0.0;
+      if (st[r] == VALUE) {
+        d = x[r] * scale - shift;
+        su += d;
+        su2 += d * d;
+      } else {
+        constantRow[t] = true;
+        constants++;
+      }
+      b[pending + t] = d;
+    }
+    sumU[j] = su;
+    sumU2[j] = su2;
+    // Counts are whole numbers far below 2^53: added at once, they come out as one at a time.
+    present[j] += m - constants;
   }
 
   /** The sums over the rows where a column is in a constant state, for this row's such entries. */

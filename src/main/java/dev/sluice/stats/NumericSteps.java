@@ -50,6 +50,16 @@ public final class NumericSteps implements Serializable {
     return d == null ? Double.POSITIVE_INFINITY : d;
   }
 
+  /** The lowest valid value, -Infinity for none. */
+  public double validMin() {
+    return validMin;
+  }
+
+  /** The highest valid value, +Infinity for none. */
+  public double validMax() {
+    return validMax;
+  }
+
   /** True when the outlier step removes values (set-missing, quarantine): it changes their number. */
   public boolean removes() {
     return action == Action.REMOVE;

@@ -175,6 +175,43 @@ public final class RowSample implements Serializable {
     return step(step(step(step(0L, h0), h1), h2), h3);
   }
 
+  /**
+   * {@link #hash} of many rows given column by column, reusing its scratch from call to call (not
+   * thread-safe). Each column is folded into its lane for all rows in one loop, so that the steps
+   * of different rows overlap; the hashes are the same as {@link #hash} gives row by row.
+   */
+  public static final class Hasher {
+    private long[][] lanes = new long[4][0];
+
+    /**
+     * The hashes of rows 0 .. n - 1, row r being {@code columns[0][r], columns[1][r], ...}: valid
+     * until the next call.
+     */
+    public long[] of(double[][] columns, int n) {
+      if (lanes[0].length < n) {
+        lanes = new long[4][Math.max(n, 4096)];
+      }
+      for (long[] lane : lanes) {
+        Arrays.fill(lane, 0, n, 0L);
+      }
+      for (int i = 0; i < columns.length; i++) {
+        long[] h = lanes[i & 3];
+        double[] x = columns[i];
+        for (int r = 0; r < n; r++) {
+          h[r] = step(h[r], bits(x[r]));
+        }
+      }
+      long[] h0 = lanes[0];
+      long[] h1 = lanes[1];
+      long[] h2 = lanes[2];
+      long[] h3 = lanes[3];
+      for (int r = 0; r < n; r++) {
+        h0[r] = step(step(step(step(0L, h0[r]), h1[r]), h2[r]), h3[r]);
+      }
+      return h0;
+    }
+  }
+
   private static long step(long h, long x) {
     return mix13((h ^ x) + GAMMA);
   }

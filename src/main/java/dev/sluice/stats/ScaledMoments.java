@@ -86,8 +86,14 @@ public final class ScaledMoments implements Serializable {
     blockSum += y;
     blockSq += y * y;
     blockCount++;
-    min = Math.min(min, x);
-    max = Math.max(max, x);
+    // Math.min and Math.max cost more than a compare that is almost always false; on equality
+    // they still order -0.0 below 0.0.
+    if (x <= min) {
+      min = Math.min(min, x);
+    }
+    if (x >= max) {
+      max = Math.max(max, x);
+    }
     if (blockCount == BLOCK) {
       fold();
     }

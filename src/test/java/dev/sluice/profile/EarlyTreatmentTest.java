@@ -69,4 +69,44 @@ class EarlyTreatmentTest {
     }
     assertThat(t.merge(third).overflowed).isTrue();
   }
+
+  @Test
+  void aBatchGivenColumnByColumnIsPlacedAsItsRowsAre() {
+    // Not an outside reference: addColumns must place every row as add does, keep the same rows
+    // aside in the same order and add the same co-moments, bit for bit. The values cover nulls,
+    // NaN, infinities, invalid values, both sides of every band edge, and all three actions.
+    NumericSteps any = NumericSteps.validity(null, null);
+    NumericSteps bounded = NumericSteps.validity(-50.0, 50.0);
+    NumericSteps[] validity = {any, bounded, bounded, any};
+    NumericSteps.Action[] actions = {CAP, REMOVE, NumericSteps.Action.LEAVE, CAP};
+    double[][] low = {{-10, -8}, {-10, -8}, {-10, -8}, null};
+    double[][] high = {{8, 10}, {8, 10}, {8, 10}, {8, 10}};
+    double[] centres = {0, 0, 0, 0};
+    EarlyTreatment byRow = new EarlyTreatment(validity, actions, low, high, new CoMoments(centres), 40);
+    EarlyTreatment byColumn = byRow.emptyCopy();
+    double[] pool = {Double.NaN, Double.NEGATIVE_INFINITY, Double.POSITIVE_INFINITY, -60, 60, -10, -9, -8,
+        -0.0, 0, 3, 8, 9, 10, 10.5, -10.5, 49, -49, 50, -50, 51, 1e300};
+    java.util.Random random = new java.util.Random(53);
+    for (int batch : new int[] {100, 37, 300}) {
+      double[][] columns = new double[4][batch];
+      for (int r = 0; r < batch; r++) {
+        double[] row = new double[4];
+        for (int s = 0; s < 4; s++) {
+          row[s] = random.nextDouble() < 0.6 ? random.nextGaussian() * 4 : pool[random.nextInt(pool.length)];
+          columns[s][r] = row[s];
+        }
+        byRow.add(row);
+      }
+      byColumn.addColumns(columns, batch);
+    }
+    assertThat(byColumn.aside).isEqualTo(byRow.aside).isPositive();
+    assertThat(byColumn.overflowed).isEqualTo(byRow.overflowed).isTrue();
+    assertThat(byColumn.pending).hasSameSizeAs(byRow.pending);
+    for (int i = 0; i < byRow.pending.size(); i++) {
+      assertThat(byColumn.pending.get(i)).isEqualTo(byRow.pending.get(i));
+    }
+    double[][] constants = {{1, -9, 9}, {0.5, -9, 9}, {2, Double.NaN, Double.NaN}, {-1, -9, 9.5}};
+    assertThat(byColumn.comoments.rows()).isEqualTo(byRow.comoments.rows());
+    assertThat(byColumn.comoments.covariance(constants)).isDeepEqualTo(byRow.comoments.covariance(constants));
+  }
 }
