@@ -35,8 +35,8 @@ import org.apache.spark.sql.vectorized.ColumnarBatch;
  *
  * <p>Quartiles are exact type 7 whatever the table's size ({@link RankSearch}). A row count runs
  * first (served from file footers for Parquet and ORC); on a table too large to hold a column in
- * memory, a pilot sample of the first rows of a few spread partitions places the windows whose
- * values the pass keeps. A pilot that placed them badly costs an extra pass, never accuracy.
+ * memory, a pilot sample of the first rows of a few spread partitions ({@link #pilotPartitions})
+ * places the windows whose values the pass keeps. A pilot that placed them badly costs an extra pass, never accuracy.
  * Columns using the MAD method cost one more pass, shared by all of them, because the MAD is a
  * median of distances from the median.
  */
@@ -70,7 +70,7 @@ public final class Profiler {
     int perWindow = settings.quantiles().heldPerWindow(QUARTILES.length * measured.length);
     RowScan.Pilot taken = rows > perWindow && measured.length > 0
         ? RowScan.pilot(numeric, measured.length, layout.keyAt >= 0 ? measured.length : -1,
-            pilotRows(settings, measured.length), PILOT_PARTITIONS)
+            pilotRows(settings, measured.length), pilotPartitions(data, layout.keyAt >= 0))
         : new RowScan.Pilot(new double[measured.length][0], new long[0]);
     double[][] pilot = taken.values();
     NumericSteps[] validity = new NumericSteps[measured.length];
@@ -332,6 +332,20 @@ public final class Profiler {
 
   private static Double boxed(java.util.OptionalDouble d) {
     return d.isPresent() ? d.getAsDouble() : null;
+  }
+
+  /**
+   * Partitions the pilot reads. Its first rows cost the read of a partition's first row group
+   * (Parquet and ORC read a row group's column chunks whole), so without groups the pilot reads
+   * as many partitions as the cluster runs tasks at once (Spark's default parallelism: its cores,
+   * unless spark.default.parallelism says otherwise), at least 2 and at most {@link
+   * #PILOT_PARTITIONS}: one wave of tasks. With groups.by it reads up to {@link #PILOT_PARTITIONS}, to
+   * meet as many groups as it can (a table partitioned by the group key has one group per
+   * partition).
+   */
+  static int pilotPartitions(Dataset<Row> data, boolean grouped) {
+    int wave = data.sparkSession().sparkContext().defaultParallelism();
+    return grouped ? PILOT_PARTITIONS : Math.max(2, Math.min(PILOT_PARTITIONS, wave));
   }
 
   /** Pilot rows: the configured number, fewer on wide tables so the pilot stays in budget. */

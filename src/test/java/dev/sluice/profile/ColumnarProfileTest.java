@@ -28,6 +28,17 @@ class ColumnarProfileTest {
   @TempDir Path tmp;
 
   @Test
+  void thePilotReadsOneWaveOfPartitionsOrMoreWithGroups(SparkSession spark) {
+    // Not an outside reference: the policy of Profiler.pilotPartitions. The shared session sets
+    // spark.default.parallelism to 4 (without it, local[2] would give 2: its cores); with groups
+    // the pilot reads up to 16 partitions.
+    Dataset<Row> data = spark.range(10).toDF();
+    assertThat(spark.sparkContext().defaultParallelism()).isEqualTo(4);
+    assertThat(Profiler.pilotPartitions(data, false)).isEqualTo(4);
+    assertThat(Profiler.pilotPartitions(data, true)).isEqualTo(Profiler.PILOT_PARTITIONS).isEqualTo(16);
+  }
+
+  @Test
   void columnarAndRowPathsGiveTheSameProfile(SparkSession spark) {
     String dir = tmp.resolve("t").toString();
     spark.sql("SELECT id, CAST(id % 7 AS TINYINT) AS b, CAST(id % 300 AS SMALLINT) AS s,"
