@@ -9,6 +9,7 @@ import dev.sluice.config.Settings;
 import dev.sluice.config.SettingsLoader;
 import dev.sluice.io.InputTable;
 import dev.sluice.io.OutputLayout;
+import dev.sluice.io.ParquetEncoding;
 import dev.sluice.io.PlanFile;
 import dev.sluice.io.TableReader;
 import dev.sluice.plan.GateCheck;
@@ -110,7 +111,7 @@ public final class Job {
       CompletableFuture<Double> tables = CompletableFuture.supplyAsync(() -> timed(() -> writeTables(fit, out)),
           BESIDE);
       try {
-        Map<String, Long> written = writeTreated(selected, fit.plan(), out);
+        Map<String, Long> written = writeTreated(selected, fit.plan(), out, fit.profile().pilotDistinct());
         reconcile(read, written);
         rows.putAll(written);
       } catch (RuntimeException e) {
@@ -221,7 +222,7 @@ public final class Job {
     long read = selected.rowsRead().isPresent() ? selected.rowsRead().getAsLong()
         : measured.rows().isPresent() && selected.malformedColumn().isEmpty() ? measured.rows().getAsLong()
         : selected.data().count();
-    Map<String, Long> written = writeTreated(selected, plan, out);
+    Map<String, Long> written = writeTreated(selected, plan, out, Map.of());
     reconcile(read, written);
     rows.put("read", read);
     rows.putAll(written);
@@ -297,18 +298,26 @@ public final class Job {
     }
   }
 
-  /** Treated and quarantined rows from one read of the input, counted; the caller reconciles them. */
-  private Map<String, Long> writeTreated(InputTable table, Plan plan, OutputLayout out) {
+  /**
+   * Treated and quarantined rows from one read of the input, counted; the caller reconciles them.
+   * {@code pilotDistinct} (empty: none) sets the treated table's Parquet encoding ({@link
+   * ParquetEncoding}).
+   */
+  private Map<String, Long> writeTreated(InputTable table, Plan plan, OutputLayout out,
+      Map<String, Long> pilotDistinct) {
     TreatmentSplit split = TreatmentSplit.of(
         table.data(), table.wellFormed().schema(), table.malformedColumn(), plan);
     if (split.quarantined().isPresent() && table.malformedColumn().isEmpty()) {
       split.base().persist(StorageLevel.MEMORY_AND_DISK());
     }
     List<String> parts = table.partitionColumns();
-    long treated = write(split.treated(), out.staged("treated"), parts, "sluice-treated");
+    long dictionaryPage = spark.sessionState().newHadoopConf()
+        .getLong(ParquetEncoding.DICTIONARY_PAGE, ParquetEncoding.DEFAULT_DICTIONARY_PAGE);
+    Map<String, String> encoding = ParquetEncoding.options(pilotDistinct, split.treated().schema(), dictionaryPage);
+    long treated = write(split.treated(), out.staged("treated"), parts, "sluice-treated", encoding);
     long held = 0;
     if (split.quarantined().isPresent()) {
-      held = write(split.quarantined().get(), out.staged("quarantine"), parts, "sluice-quarantined");
+      held = write(split.quarantined().get(), out.staged("quarantine"), parts, "sluice-quarantined", Map.of());
       split.base().unpersist();
     }
     Map<String, Long> rows = new LinkedHashMap<>();
@@ -328,12 +337,14 @@ public final class Job {
   }
 
   /**
-   * Writes {@code data} and returns its row count, observed while writing and checked against
-   * the row counts in the written files' footers: a retried or speculative task can count twice.
+   * Writes {@code data} with the writer {@code options} and returns its row count, observed while
+   * writing and checked against the row counts in the written files' footers: a retried or
+   * speculative task can count twice.
    */
-  private long write(Dataset<Row> data, String dir, List<String> parts, String name) {
+  private long write(Dataset<Row> data, String dir, List<String> parts, String name, Map<String, String> options) {
     Observation rows = new Observation(name);
-    DataFrameWriter<Row> w = data.observe(rows, count(lit(1)).as("rows")).write().mode(SaveMode.Overwrite);
+    DataFrameWriter<Row> w = data.observe(rows, count(lit(1)).as("rows")).write().mode(SaveMode.Overwrite)
+        .options(options);
     if (!parts.isEmpty()) {
       w = w.partitionBy(parts.toArray(new String[0]));
     }

@@ -138,8 +138,13 @@ public final class Profiler {
         acc.early == null ? null : acc.early.comoments,
         acc.early == null ? null : acc.early.actions(), acc.early == null ? null : acc.early.bands(),
         kept.isEmpty() ? null : kept.get(0), acc.early != null && acc.early.overflowed);
+    Map<String, Long> pilotDistinct = new LinkedHashMap<>();
+    for (int j = 0; j < measured.length && pilot[0].length > 0; j++) {
+      pilotDistinct.put(layout.names[measured[j]], distinct(usable[j]));
+    }
     return new TableProfile(acc.rows, columns(data.sparkSession(), layout, acc, quartiles, mad),
-        sampleNames, acc.sample, pilotByName, quartiles, share, acc.trackedNames(), acc.together, groups);
+        sampleNames, acc.sample, pilotByName, quartiles, share, acc.trackedNames(), acc.together, groups,
+        pilotDistinct);
   }
 
   /**
@@ -346,6 +351,15 @@ public final class Profiler {
   static int pilotPartitions(Dataset<Row> data, boolean grouped) {
     int wave = data.sparkSession().sparkContext().defaultParallelism();
     return grouped ? PILOT_PARTITIONS : Math.max(2, Math.min(PILOT_PARTITIONS, wave));
+  }
+
+  /** The number of distinct values in a sorted array (-0.0 and 0.0 as one). */
+  static long distinct(double[] sorted) {
+    long n = 0;
+    for (int i = 0; i < sorted.length; i++) {
+      n += i == 0 || sorted[i] != sorted[i - 1] ? 1 : 0;
+    }
+    return n;
   }
 
   /** Pilot rows: the configured number, fewer on wide tables so the pilot stays in budget. */

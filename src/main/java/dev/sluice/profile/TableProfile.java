@@ -25,6 +25,8 @@ import java.util.Optional;
  * @param together rows by the set of those columns that are null in them, as a bit mask (rows
  *     with none left out); overflowed past 10,000 different sets
  * @param groups what pass 1 measured of each group of groups.by, or null without groups
+ * @param pilotDistinct per measured column, the distinct usable values in its pilot (empty when
+ *     there was no pilot): a lower bound on how many distinct values the column has
  */
 public record TableProfile(
     long rows,
@@ -36,7 +38,8 @@ public record TableProfile(
     PassOneShare share,
     List<String> togetherColumns,
     HashedCounts<Long> together,
-    GroupMeasures groups) {
+    GroupMeasures groups,
+    Map<String, Long> pilotDistinct) {
 
   /** Most columns whose nulls the missing-together counts track (one bit each in a long). */
   public static final int TOGETHER_COLUMNS = 64;
