@@ -254,7 +254,13 @@ public final class Benchmark {
     return out;
   }
 
+  /**
+   * Times one case. A full collection first, outside the timing, so that no case pays for the
+   * garbage the one before it left (the hand-written pipeline caches the whole table, and the
+   * case after it otherwise spends its first seconds collecting that).
+   */
   private static double time(Runnable r) {
+    System.gc();
     long t = System.nanoTime();
     r.run();
     return (System.nanoTime() - t) / 1e9;

@@ -10,6 +10,7 @@ import dev.sluice.config.SettingsLoader;
 import dev.sluice.io.InputTable;
 import dev.sluice.io.OutputLayout;
 import dev.sluice.io.ParquetEncoding;
+import dev.sluice.io.ParquetFooters;
 import dev.sluice.io.PlanFile;
 import dev.sluice.io.TableReader;
 import dev.sluice.plan.GateCheck;
@@ -350,7 +351,7 @@ public final class Job {
     }
     w.parquet(dir);
     long observed = observed(rows);
-    long inFiles = observed == 0 && !parts.isEmpty() ? 0 : spark.read().parquet(dir).count();
+    long inFiles = ParquetFooters.rows(spark.sessionState().newHadoopConf(), dir);
     if (observed != inFiles) {
       throw new SluiceException(SluiceException.Kind.INTERNAL, "Row count of " + name + " is "
           + observed + " while writing but " + inFiles + " in the written files; nothing was published");
