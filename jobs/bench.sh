@@ -25,6 +25,6 @@ if [[ ! -f "$BUILD/local-classpath.txt" || -n "$(find src/main pom.xml -newer "$
 fi
 export SPARK_LOCAL_IP="${SPARK_LOCAL_IP:-127.0.0.1}"
 read -r -a FLAGS < "$BUILD/launcher/java-flags.txt"
-exec java "${FLAGS[@]}" -Xmx"${BENCH_DRIVER_MEMORY:-2g}" -Xss4m \
+exec java "${FLAGS[@]}" -Xms"${BENCH_DRIVER_MEMORY:-2g}" -Xmx"${BENCH_DRIVER_MEMORY:-2g}" -Xss4m \
   -Dlog4j.configurationFile="$HERE/conf/log4j2.properties" -Dsluice.log.file="$BUILD/bench.log" \
   -cp "$BUILD/classes:$(cat "$BUILD/local-classpath.txt")" dev.sluice.bench.Benchmark "$@"
