@@ -1,6 +1,5 @@
 package dev.sluice.cli;
 
-
 import dev.sluice.SluiceException;
 import dev.sluice.Sluice;
 import dev.sluice.config.Settings;
