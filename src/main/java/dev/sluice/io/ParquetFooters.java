@@ -6,9 +6,8 @@ import java.util.ArrayList;
 import java.util.List;
 import org.apache.hadoop.conf.Configuration;
 import org.apache.hadoop.fs.FileSystem;
-import org.apache.hadoop.fs.LocatedFileStatus;
+import org.apache.hadoop.fs.FileStatus;
 import org.apache.hadoop.fs.Path;
-import org.apache.hadoop.fs.RemoteIterator;
 import org.apache.parquet.hadoop.ParquetFileReader;
 import org.apache.parquet.hadoop.util.HadoopInputFile;
 
@@ -30,14 +29,8 @@ public final class ParquetFooters {
       if (!fs.exists(root)) {
         return 0;
       }
-      List<LocatedFileStatus> files = new ArrayList<>();
-      RemoteIterator<LocatedFileStatus> it = fs.listFiles(root, true);
-      while (it.hasNext()) {
-        LocatedFileStatus f = it.next();
-        if (f.getPath().getName().endsWith(".parquet") && !hidden(root, f.getPath())) {
-          files.add(f);
-        }
-      }
+      List<FileStatus> files = new ArrayList<>();
+      collect(fs, root, files);
       // Footers read side by side: on an object store each read waits on the network.
       return files.parallelStream().mapToLong(f -> rowsOf(conf, f)).sum();
     } catch (IOException e) {
@@ -45,25 +38,30 @@ public final class ParquetFooters {
     }
   }
 
-  private static long rowsOf(Configuration conf, LocatedFileStatus f) {
+  /**
+   * The visible Parquet files under {@code dir}, its partition directories included. Plain
+   * directory listings: a recursive {@code listFiles} asks each file for its permissions, which
+   * not every file system can tell.
+   */
+  private static void collect(FileSystem fs, Path dir, List<FileStatus> files) throws IOException {
+    for (FileStatus f : fs.listStatus(dir)) {
+      String name = f.getPath().getName();
+      if (name.startsWith("_") || name.startsWith(".")) {
+        continue;
+      }
+      if (f.isDirectory()) {
+        collect(fs, f.getPath(), files);
+      } else if (name.endsWith(".parquet")) {
+        files.add(f);
+      }
+    }
+  }
+
+  private static long rowsOf(Configuration conf, FileStatus f) {
     try (ParquetFileReader r = ParquetFileReader.open(HadoopInputFile.fromStatus(f, conf))) {
       return r.getRecordCount();
     } catch (IOException e) {
       throw new UncheckedIOException("Cannot read the footer of " + f.getPath(), e);
     }
-  }
-
-  /**
-   * Whether the file, or a directory between it and the (qualified) root, is hidden (_ or .
-   * first); the root's own parents do not count (outputs are staged under {@code _staging}).
-   */
-  private static boolean hidden(Path root, Path file) {
-    for (Path p = file; p != null && !p.equals(root); p = p.getParent()) {
-      String name = p.getName();
-      if (name.startsWith("_") || name.startsWith(".")) {
-        return true;
-      }
-    }
-    return false;
   }
 }
