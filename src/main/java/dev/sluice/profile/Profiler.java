@@ -400,10 +400,6 @@ public final class Profiler {
   }
 
   /**
-   * The MAD of every treated column whose outlier method is mad: one more pass, shared, over the
-   * distances of the valid values from the column's exact median. NaN for the other columns.
-   */
-  /**
    * What the MAD pass needs to find each group's MAD too: pass 1's group figures (whose MADs it
    * fills in), each group's key hash, the pilot rows' key hashes, where the pass reads a row's key,
    * and the fewest values a group needs for figures of its own.
@@ -414,6 +410,11 @@ public final class Profiler {
   /** Most (group, column) MAD searches the MAD pass takes on; more are left to the search after the plan. */
   static final int MAX_GROUP_TARGETS = 2_000;
 
+  /**
+   * The MAD of every treated column whose outlier method is mad: one more pass, shared, over the
+   * distances of the valid values from the column's exact median, which also finds each group's
+   * MAD ({@code keys}; null without groups). NaN for the other columns.
+   */
   private static double[] mads(JavaRDD<InternalRow> numeric, ProfileLayout layout, int[] measured,
       Settings settings, NumericSteps[] validity, List<RankSearch> quartiles, double[][] pilot, long rows,
       GroupKeys keys) {

@@ -101,6 +101,23 @@ public final class Frequencies<K extends Comparable<? super K>> implements Seria
   }
 
   /**
+   * {@code occurrences} of an immutable key at once, as many calls of {@link #add} would give.
+   *
+   * @throws IllegalArgumentException for fewer than 1 occurrence
+   * @throws NullPointerException for a null key
+   */
+  public void add(K key, long occurrences) {
+    if (occurrences < 1) {
+      throw new IllegalArgumentException("Cannot count " + occurrences + " occurrences of " + key);
+    }
+    insert(key);
+    Tally t = counts == null ? null : counts.get(key);
+    if (t != null) {
+      t.n += occurrences - 1;
+    }
+  }
+
+  /**
    * Folds {@code other} into this instance, adding counts key by key, and returns this;
    * {@code other} is not changed and shares no counts with this. The result is overflowed when
    * either side is or when the union holds more than {@code limit} keys.

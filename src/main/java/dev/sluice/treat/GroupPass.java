@@ -231,22 +231,16 @@ public final class GroupPass {
    * mode and Spark's deterministic mode); NaN when no value is left.
    */
   static double modeAfter(dev.sluice.stats.HashedCounts<Double> counts, NumericSteps steps) {
-    Map<Double, Long> after = new HashMap<>();
-    for (Map.Entry<Double, Long> e : counts.mostCommon(Integer.MAX_VALUE)) {
+    List<Map.Entry<Double, Long>> before = counts.mostCommon(Integer.MAX_VALUE);
+    dev.sluice.stats.Frequencies<Double> after = new dev.sluice.stats.Frequencies<>(Math.max(1, before.size()));
+    for (Map.Entry<Double, Long> e : before) {
       double t = steps.afterOutliers(e.getKey());
       if (!Double.isNaN(t)) {
-        after.merge(t + 0.0, e.getValue(), Long::sum);
+        after.add(t + 0.0, e.getValue());
       }
     }
-    double best = Double.NaN;
-    long most = 0;
-    for (Map.Entry<Double, Long> e : after.entrySet()) {
-      if (e.getValue() > most || e.getValue() == most && e.getKey() < best) {
-        best = e.getKey();
-        most = e.getValue();
-      }
-    }
-    return best;
+    Double top = after.top();
+    return top == null ? Double.NaN : top;
   }
 
   /** The names of the plan's group-wise columns that {@code passOne} left to the search, with the reasons. */
@@ -595,7 +589,6 @@ public final class GroupPass {
     }
     return Arrays.asList(k);
   }
-
 
   /** True where the row belongs to the group with this key (a null key value matches a null). */
   static Column inGroup(List<String> by, List<String> key) {

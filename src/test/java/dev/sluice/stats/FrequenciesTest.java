@@ -72,6 +72,28 @@ class FrequenciesTest {
   }
 
   @Test
+  void manyOccurrencesAtOnceCountAsOneByOne() {
+    // Not an outside reference: add(key, n) must equal n calls of add(key), overflow included.
+    Frequencies<Double> once = new Frequencies<>(3);
+    Frequencies<Double> many = new Frequencies<>(3);
+    double[] keys = {2.5, -1.0, 2.5, 7.0};
+    long[] n = {3, 4, 2, 1};
+    for (int i = 0; i < keys.length; i++) {
+      many.add(keys[i], n[i]);
+      for (long k = 0; k < n[i]; k++) {
+        once.add(keys[i]);
+      }
+    }
+    assertThat(many.top()).isEqualTo(once.top()).isEqualTo(2.5);
+    assertThat(many.topCount()).isEqualTo(once.topCount()).isEqualTo(5);
+    assertThat(many.count(-1.0)).isEqualTo(4);
+    many.add(9.0, 2);
+    assertThat(many.overflowed()).isTrue();
+    assertThat(many.top()).isNull();
+    assertThatThrownBy(() -> once.add(1.0, 0)).isInstanceOf(IllegalArgumentException.class);
+  }
+
+  @Test
   void incrementCountsOnlyHeldKeys() {
     Frequencies<String> f = new Frequencies<>(5);
     assertThat(f.increment("x")).isFalse();
