@@ -4,21 +4,87 @@ import java.io.IOException;
 import java.io.UncheckedIOException;
 import java.util.ArrayList;
 import java.util.List;
+import java.util.OptionalLong;
+import java.util.concurrent.ExecutionException;
+import java.util.concurrent.ExecutorService;
+import java.util.concurrent.Executors;
+import java.util.concurrent.Future;
 import org.apache.hadoop.conf.Configuration;
 import org.apache.hadoop.fs.FileSystem;
 import org.apache.hadoop.fs.FileStatus;
 import org.apache.hadoop.fs.Path;
 import org.apache.parquet.hadoop.ParquetFileReader;
 import org.apache.parquet.hadoop.util.HadoopInputFile;
+import org.apache.spark.sql.Dataset;
+import org.apache.spark.sql.Row;
+import org.apache.spark.sql.catalyst.plans.logical.LogicalPlan;
+import org.apache.spark.sql.catalyst.plans.logical.Project;
+import org.apache.spark.sql.execution.datasources.HadoopFsRelation;
+import org.apache.spark.sql.execution.datasources.LogicalRelation;
+import org.apache.spark.sql.execution.datasources.parquet.ParquetFileFormat;
+import org.slf4j.Logger;
+import org.slf4j.LoggerFactory;
 
 /**
- * Row counts of a written Parquet directory, read from its files' footers by the driver: no Spark
- * job, which would cost a listing job and a counting job with a shuffle for what a few footer
- * reads give. The files are those a Spark write leaves: {@code *.parquet} files, in partition
- * directories or not; names starting with {@code _} or {@code .} (markers, staging) are skipped.
+ * Row counts read from Parquet files' footers by the driver: no Spark job, which would cost a
+ * counting job with a shuffle (and, for a written directory, a listing job) for what a few footer
+ * reads give.
  */
 public final class ParquetFooters {
+  private static final Logger LOG = LoggerFactory.getLogger(ParquetFooters.class);
+
+  /**
+   * Most files {@link #rowsRead} reads the footers of; a table of more is counted by Spark, whose
+   * tasks spread the reads over the executors.
+   */
+  static final int MOST_FILES = 256;
+
+  /** Footers read at once: on an object store each read waits on the network. */
+  private static final int READERS = 16;
+
   private ParquetFooters() {}
+
+  /**
+   * The rows Spark will read from {@code data}, from its files' footers, when {@code data} is a
+   * plain read of Parquet files (columns selected, nothing filtered, joined or limited) of at most
+   * {@link #MOST_FILES} files, and Spark is not set to skip corrupt or missing files; otherwise, or
+   * when a footer cannot be read, empty, and the caller counts with Spark.
+   */
+  public static OptionalLong rowsRead(Dataset<Row> data) {
+    LogicalPlan plan = data.queryExecution().optimizedPlan();
+    while (plan instanceof Project p) {
+      plan = p.child();
+    }
+    if (!(plan instanceof LogicalRelation r) || !(r.relation() instanceof HadoopFsRelation fs)
+        || !(fs.fileFormat() instanceof ParquetFileFormat)) {
+      return OptionalLong.empty();
+    }
+    var conf = data.sparkSession().sessionState().conf();
+    boolean skips = scala.jdk.javaapi.CollectionConverters.asJava(fs.options()).keySet().stream()
+        .anyMatch(k -> k.equalsIgnoreCase("ignoreCorruptFiles") || k.equalsIgnoreCase("ignoreMissingFiles"));
+    if (skips || conf.ignoreCorruptFiles() || conf.ignoreMissingFiles()) {
+      return OptionalLong.empty();
+    }
+    String[] files = data.inputFiles();
+    if (files.length > MOST_FILES) {
+      return OptionalLong.empty();
+    }
+    Configuration hadoop = data.sparkSession().sessionState().newHadoopConfWithOptions(fs.options());
+    List<Footer> footers = new ArrayList<>();
+    try {
+      for (String f : files) {
+        Path path = new Path(new java.net.URI(f));
+        footers.add(() -> HadoopInputFile.fromPath(path, hadoop));
+      }
+      long rows = sum(footers);
+      LOG.info("Counted {} rows from the footers of {} Parquet file(s)", rows, files.length);
+      return OptionalLong.of(rows);
+    } catch (RuntimeException | java.net.URISyntaxException e) {
+      // Only a shortcut: Spark counts the rows instead, and reports a file it cannot read itself.
+      LOG.info("Cannot count the rows from the Parquet footers ({}); Spark counts them", e.getMessage());
+      return OptionalLong.empty();
+    }
+  }
 
   /** The rows in every Parquet file under {@code dir}; 0 when it does not exist or holds none. */
   public static long rows(Configuration conf, String dir) {
@@ -31,8 +97,11 @@ public final class ParquetFooters {
       }
       List<FileStatus> files = new ArrayList<>();
       collect(fs, root, files);
-      // Footers read side by side: on an object store each read waits on the network.
-      return files.parallelStream().mapToLong(f -> rowsOf(conf, f)).sum();
+      List<Footer> footers = new ArrayList<>();
+      for (FileStatus f : files) {
+        footers.add(() -> HadoopInputFile.fromStatus(f, conf));
+      }
+      return sum(footers);
     } catch (IOException e) {
       throw new UncheckedIOException("Cannot list the Parquet files under " + dir, e);
     }
@@ -57,11 +126,53 @@ public final class ParquetFooters {
     }
   }
 
-  private static long rowsOf(Configuration conf, FileStatus f) {
-    try (ParquetFileReader r = ParquetFileReader.open(HadoopInputFile.fromStatus(f, conf))) {
-      return r.getRecordCount();
+  /** A Parquet file to open (on an object store, finding it is a network call too). */
+  private interface Footer {
+    HadoopInputFile open() throws IOException;
+  }
+
+  /** The rows of {@code files}, their footers read side by side. */
+  private static long sum(List<Footer> files) {
+    if (files.size() <= 1) {
+      return files.stream().mapToLong(ParquetFooters::rowsOf).sum();
+    }
+    ExecutorService pool = Executors.newFixedThreadPool(Math.min(READERS, files.size()), r -> {
+      Thread t = new Thread(r, "sluice-footers");
+      t.setDaemon(true);
+      return t;
+    });
+    try {
+      List<Future<Long>> counts = new ArrayList<>();
+      for (Footer f : files) {
+        counts.add(pool.submit(() -> rowsOf(f)));
+      }
+      long rows = 0;
+      for (Future<Long> c : counts) {
+        rows += c.get();
+      }
+      return rows;
+    } catch (ExecutionException e) {
+      if (e.getCause() instanceof UncheckedIOException u) {
+        throw u;
+      }
+      throw new IllegalStateException("Cannot read a Parquet footer", e.getCause());
+    } catch (InterruptedException e) {
+      Thread.currentThread().interrupt();
+      throw new IllegalStateException("Interrupted while reading Parquet footers", e);
+    } finally {
+      pool.shutdownNow();
+    }
+  }
+
+  private static long rowsOf(Footer f) {
+    HadoopInputFile file = null;
+    try {
+      file = f.open();
+      try (ParquetFileReader r = ParquetFileReader.open(file)) {
+        return r.getRecordCount();
+      }
     } catch (IOException e) {
-      throw new UncheckedIOException("Cannot read the footer of " + f.getPath(), e);
+      throw new UncheckedIOException("Cannot read the footer of " + (file == null ? "a file" : file.getPath()), e);
     }
   }
 }

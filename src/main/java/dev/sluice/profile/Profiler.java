@@ -5,6 +5,7 @@ import dev.sluice.config.ImputeStrategy;
 import dev.sluice.config.OutlierMethod;
 import dev.sluice.config.Role;
 import dev.sluice.config.Settings;
+import dev.sluice.io.ParquetFooters;
 import dev.sluice.stats.NumericSteps;
 import dev.sluice.stats.OrderWindows;
 import dev.sluice.stats.RankSearch;
@@ -58,7 +59,8 @@ public final class Profiler {
   /** {@code columnar}: read columnar batches where the scan offers them (false: always rows). */
   static TableProfile profile(Dataset<Row> data, Settings settings, Map<String, Role> roles,
       boolean columnar) {
-    long rows = data.count();
+    // A plain Parquet read is counted from its footers: no Spark job.
+    long rows = ParquetFooters.rowsRead(data).orElseGet(data::count);
     ProfileLayout layout = ProfileLayout.of(data.schema(), roles);
     List<String> grouped = groupCandidates(layout, settings);
     List<String> groupedText = groupTextCandidates(layout, settings);

@@ -5,6 +5,8 @@ import static org.assertj.core.api.Assertions.assertThat;
 import dev.sluice.testing.SharedSpark;
 import java.nio.file.Files;
 import java.nio.file.Path;
+import org.apache.spark.sql.Dataset;
+import org.apache.spark.sql.Row;
 import org.apache.spark.sql.SparkSession;
 import org.junit.jupiter.api.Test;
 import org.junit.jupiter.api.extension.ExtendWith;
@@ -13,7 +15,8 @@ import org.junit.jupiter.api.io.TempDir;
 /**
  * The footer row count of a written directory against Spark's own count of the same files (the
  * reference), with what a write leaves beside them: markers, hidden staging, partition
- * directories, and a staging parent above the directory itself.
+ * directories, and a staging parent above the directory itself; and the footer count of a table
+ * read, against Spark's count of it, only where nothing in the read drops or adds rows.
  */
 @ExtendWith(SharedSpark.class)
 class ParquetFootersTest {
@@ -39,6 +42,47 @@ class ParquetFootersTest {
     Path empty = tmp.resolve("empty");
     spark.sql("SELECT id FROM range(0)").write().parquet(empty.toString());
     assertThat(ParquetFooters.rows(spark.sessionState().newHadoopConf(), empty.toString())).isZero();
+  }
+
+  @Test
+  void aPlainParquetReadIsCountedFromItsFootersAsSparkCountsIt(SparkSession spark) throws Exception {
+    Path dir = tmp.resolve("table");
+    spark.sql("SELECT id, id * 2 AS `a.b c`, CAST(id % 3 AS STRING) AS part FROM range(2345)").repartition(4)
+        .write().partitionBy("part").parquet(dir.toString());
+    Dataset<Row> data = spark.read().parquet(dir.toString());
+    // Reference: Spark's own count of the same read.
+    assertThat(ParquetFooters.rowsRead(data)).hasValue(data.count());
+    assertThat(ParquetFooters.rowsRead(data.select("`a.b c`", "part"))).hasValue(2345);
+  }
+
+  @Test
+  void aReadThatDropsOrAddsRowsIsLeftToSpark(SparkSession spark) throws Exception {
+    Path dir = tmp.resolve("table");
+    spark.sql("SELECT id FROM range(100)").write().parquet(dir.toString());
+    Dataset<Row> data = spark.read().parquet(dir.toString());
+    assertThat(ParquetFooters.rowsRead(data.filter("id > 5"))).isEmpty();
+    assertThat(ParquetFooters.rowsRead(data.limit(10))).isEmpty();
+    assertThat(ParquetFooters.rowsRead(data.union(data))).isEmpty();
+    assertThat(ParquetFooters.rowsRead(spark.read().option("ignoreCorruptFiles", "true").parquet(dir.toString())))
+        .isEmpty();
+    spark.conf().set("spark.sql.files.ignoreMissingFiles", "true");
+    try {
+      assertThat(ParquetFooters.rowsRead(spark.read().parquet(dir.toString()))).isEmpty();
+    } finally {
+      spark.conf().unset("spark.sql.files.ignoreMissingFiles");
+    }
+    Path csv = tmp.resolve("t.csv");
+    Files.writeString(csv, "a\n1\n2\n");
+    assertThat(ParquetFooters.rowsRead(spark.read().option("header", "true").csv(csv.toString()))).isEmpty();
+  }
+
+  @Test
+  void aFooterThatCannotBeReadLeavesTheCountToSpark(SparkSession spark) throws Exception {
+    Path dir = tmp.resolve("table");
+    spark.sql("SELECT id FROM range(100)").repartition(2).write().parquet(dir.toString());
+    Dataset<Row> data = spark.read().parquet(dir.toString());
+    Files.writeString(firstParquet(dir), "not parquet");
+    assertThat(ParquetFooters.rowsRead(data)).isEmpty();
   }
 
   private static Path firstParquet(Path dir) throws Exception {
