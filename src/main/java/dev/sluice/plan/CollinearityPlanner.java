@@ -105,7 +105,8 @@ final class CollinearityPlanner {
       }
       return none;
     }
-    double[][] raw = sample.rows();
+    RowSample.Weighted kept = sample.weighted();
+    double[][] raw = kept.rows();
     double[][] treated = new double[raw.length][p];
     for (int i = 0; i < p; i++) {
       ColumnPlan cp = find(plans, columns.get(i));
@@ -117,7 +118,7 @@ final class CollinearityPlanner {
         treated[r][i] = Double.isNaN(t) && fill != null ? fill : t;
       }
     }
-    return RankCorrelation.spearman(treated, sample.weights());
+    return RankCorrelation.spearman(treated, kept.weights());
   }
 
   /** Correlations at published precision: the same whatever order Spark merged the sums in. */

@@ -15,6 +15,7 @@ import dev.sluice.plan.TreatedStats;
 import dev.sluice.profile.ColumnProfile;
 import dev.sluice.profile.TableProfile;
 import dev.sluice.stats.NumericSteps;
+import dev.sluice.stats.RowSample;
 import java.util.ArrayList;
 import java.util.Comparator;
 import java.util.LinkedHashMap;
@@ -377,8 +378,9 @@ public final class HtmlReport {
     }
     b.append("<p>More than 10,000 different sets of columns are missing together: the most common ")
         .append("are estimated from a sample.</p>");
-    double[][] rows = profile.sample().rows();
-    long[] weights = profile.sample().weights();
+    RowSample.Weighted kept = profile.sample().weighted();
+    double[][] rows = kept.rows();
+    long[] weights = kept.weights();
     List<String> names = profile.sampleColumns();
     Map<String, Long> patterns = new LinkedHashMap<>();
     long total = 0;

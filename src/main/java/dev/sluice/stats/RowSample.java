@@ -302,7 +302,30 @@ public final class RowSample implements Serializable {
    * hash in signed order, then by content, compared value by value with {@link Double#compare}.
    */
   public double[][] rows() {
+    return rows(canonicalOrder());
+  }
+
+  /** The weights (occurrence counts) of {@link #rows()}, in the same order. */
+  public long[] weights() {
+    return weights(canonicalOrder());
+  }
+
+  /**
+   * The kept rows and their weights, as {@link #rows()} and {@link #weights()} give them, from one
+   * sort into canonical order (the caller that needs both pays for one).
+   */
+  public Weighted weighted() {
     int[] order = canonicalOrder();
+    return new Weighted(rows(order), weights(order));
+  }
+
+  /** Rows of a sample and how many times each occurred, in canonical order. */
+  public record Weighted(double[][] rows, long[] weights) {}
+
+  // ---------------------------------------------------------------------------------------------
+  // Internals
+
+  private double[][] rows(int[] order) {
     double[][] out = new double[order.length][];
     for (int i = 0; i < order.length; i++) {
       out[i] = slotRow[order[i]].clone();
@@ -310,18 +333,13 @@ public final class RowSample implements Serializable {
     return out;
   }
 
-  /** The weights (occurrence counts) of {@link #rows()}, in the same order. */
-  public long[] weights() {
-    int[] order = canonicalOrder();
+  private long[] weights(int[] order) {
     long[] out = new long[order.length];
     for (int i = 0; i < order.length; i++) {
       out[i] = slotWeight[order[i]];
     }
     return out;
   }
-
-  // ---------------------------------------------------------------------------------------------
-  // Internals
 
   /** Keeps {@code weight} occurrences of a row with hash h, h at most the threshold. */
   private void offer(long h, double[] row, long weight) {

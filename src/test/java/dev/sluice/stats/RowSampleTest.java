@@ -123,6 +123,8 @@ class RowSampleTest {
     assertThat(Arrays.deepEquals(sample.rows(), want.rows())).isTrue();
     assertThat(sample.weights()).containsExactly(want.weights());
     assertThat(Arrays.stream(sample.weights()).sum()).isEqualTo(400);
+    assertThat(Arrays.deepEquals(sample.weighted().rows(), want.rows())).isTrue();
+    assertThat(sample.weighted().weights()).containsExactly(want.weights());
   }
 
   @Test
@@ -174,6 +176,9 @@ class RowSampleTest {
 
       assertThat(Arrays.deepEquals(merged.rows(), want.rows())).as("trial %d", trial).isTrue();
       assertThat(merged.weights()).as("trial %d", trial).containsExactly(want.weights());
+      RowSample.Weighted both = merged.weighted();
+      assertThat(Arrays.deepEquals(both.rows(), want.rows())).as("trial %d", trial).isTrue();
+      assertThat(both.weights()).as("trial %d", trial).containsExactly(want.weights());
       assertThat(merged.offered()).isEqualTo(table.size());
       assertThat(merged.complete()).isFalse();
     }
