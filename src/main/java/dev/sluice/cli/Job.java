@@ -242,7 +242,7 @@ public final class Job {
     return record;
   }
 
-  /** One daemon thread for the work that runs beside the writing pass. */
+  /** One daemon thread for each piece of work that runs beside a Spark job of the main thread. */
   private static final Executor BESIDE = r -> {
     Thread th = new Thread(r, "sluice-summary-tables");
     th.setDaemon(true);
@@ -347,14 +347,25 @@ public final class Job {
     return ParquetFooters.rows(hadoop, dir);
   }
 
+  /**
+   * The summary and correlation tables and plan.json. The two Parquet tables are one small Spark
+   * job each, submitted side by side: on an idle cluster each leaves all but one core free.
+   */
   private void writeTables(Sluice.Fit fit, OutputLayout out) {
-    List<Map<String, Object>> summary = SummaryTable.rows(fit.profile(), fit.plan(), fit.stats());
-    Outputs.parquet(spark, out.staged("summary"), SummaryTable.COLUMNS, summary);
-    Outputs.csv(spark, out.staged("summary.csv"), SummaryTable.COLUMNS, summary);
     List<Map<String, Object>> pairs = CorrelationTable.rows(fit.plan().collinearity());
-    Outputs.parquet(spark, out.staged("correlations"), CorrelationTable.COLUMNS, pairs);
-    Outputs.csv(spark, out.staged("correlations.csv"), CorrelationTable.COLUMNS, pairs);
-    Outputs.json(spark, out.staged("plan.json"), fit.plan());
+    CompletableFuture<Void> correlations = CompletableFuture.runAsync(
+        () -> Outputs.parquet(spark, out.staged("correlations"), CorrelationTable.COLUMNS, pairs), BESIDE);
+    try {
+      List<Map<String, Object>> summary = SummaryTable.rows(fit.profile(), fit.plan(), fit.stats());
+      Outputs.parquet(spark, out.staged("summary"), SummaryTable.COLUMNS, summary);
+      Outputs.csv(spark, out.staged("summary.csv"), SummaryTable.COLUMNS, summary);
+      Outputs.csv(spark, out.staged("correlations.csv"), CorrelationTable.COLUMNS, pairs);
+      Outputs.json(spark, out.staged("plan.json"), fit.plan());
+    } catch (RuntimeException e) {
+      awaitQuietly(correlations, e);
+      throw e;
+    }
+    await(correlations);
   }
 
   /** The output must not be, contain or lie inside the input: the input is never written to. */
