@@ -239,11 +239,7 @@ final class ProfileAccumulator implements RowScan.Accumulator<ProfileAccumulator
       double[] v = batchValues[j];
       boolean[] isNull = batchNulls[j];
       Batches.doubles(batch.column(layout.rawAt[i]), layout.rawTypes[i], n, v, isNull);
-      for (int r = 0; r < n; r++) {
-        if (!isNull[r]) {
-          measure(j, v[r]);
-        }
-      }
+      measureColumn(j, v, isNull, n);
     }
     for (int i : layout.categorical) {
       ColumnVector v = batch.column(layout.rawAt[i]);
@@ -350,6 +346,37 @@ final class ProfileAccumulator implements RowScan.Accumulator<ProfileAccumulator
   }
 
   /** One non-null value of measured column j. */
+  /**
+   * {@link #measure} on the non-null values {@code v[0 .. n - 1]} of column j, with the column's
+   * accumulators held in locals for the loop (the per-value path of a columnar batch).
+   */
+  private void measureColumn(int j, double[] v, boolean[] isNull, int n) {
+    OrderWindows w = windows[j];
+    ScaledMoments[] m = moments[j];
+    NumericSteps valid = validity[j];
+    long nans = 0;
+    long infinities = 0;
+    long invalids = 0;
+    for (int r = 0; r < n; r++) {
+      if (isNull[r]) {
+        continue;
+      }
+      double x = v[r];
+      if (Double.isNaN(x)) {
+        nans++;
+      } else if (Double.isInfinite(x)) {
+        infinities++;
+      } else if (valid.invalid(x)) {
+        invalids++;
+      } else {
+        m[w.add(x)].add(x);
+      }
+    }
+    nan[j] += nans;
+    infinite[j] += infinities;
+    invalid[j] += invalids;
+  }
+
   private void measure(int j, double x) {
     if (Double.isNaN(x)) {
       nan[j]++;

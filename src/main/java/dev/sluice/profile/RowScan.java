@@ -2,6 +2,7 @@ package dev.sluice.profile;
 
 import java.io.Serializable;
 import java.util.ArrayList;
+import java.util.Arrays;
 import java.util.Iterator;
 import java.util.List;
 import org.apache.spark.api.java.JavaRDD;
@@ -140,27 +141,34 @@ public final class RowScan {
       ids[i] = k == 1 ? 0 : (int) Math.round((double) i * (total - 1) / (k - 1));
     }
     int each = (wanted + k - 1) / k;
+    // Column-major blocks: a few long arrays serialize in bulk, where a small array per row would
+    // cost the task and the driver an object each.
     List<Object[]>[] taken = rows.mapPartitions((Iterator<InternalRow> it) -> {
-      List<double[]> got = new ArrayList<>();
-      List<Long> keys = new ArrayList<>();
-      while (got.size() < each && it.hasNext()) {
+      double[][] got = new double[columns][each];
+      long[] keys = new long[keyAt >= 0 ? each : 0];
+      int m = 0;
+      while (m < each && it.hasNext()) {
         InternalRow r = it.next();
-        double[] v = new double[columns];
         for (int j = 0; j < columns; j++) {
-          v[j] = r.isNullAt(j) ? Double.NaN : r.getDouble(j);
+          got[j][m] = r.isNullAt(j) ? Double.NaN : r.getDouble(j);
         }
-        got.add(v);
         if (keyAt >= 0) {
-          keys.add(r.getLong(keyAt));
+          keys[m] = r.getLong(keyAt);
         }
+        m++;
       }
-      long[] keyArray = keys.stream().mapToLong(Long::longValue).toArray();
-      return java.util.Collections.singletonList(new Object[] {got.toArray(new double[0][]), keyArray}).iterator();
+      if (m < each) {
+        for (int j = 0; j < columns; j++) {
+          got[j] = Arrays.copyOf(got[j], m);
+        }
+        keys = Arrays.copyOf(keys, keyAt >= 0 ? m : 0);
+      }
+      return java.util.Collections.singletonList(new Object[] {got, keys, m}).iterator();
     }).collectPartitions(ids);
     int n = 0;
     for (List<Object[]> part : taken) {
       for (Object[] block : part) {
-        n += ((double[][]) block[0]).length;
+        n += (Integer) block[2];
       }
     }
     for (int j = 0; j < columns; j++) {
@@ -171,16 +179,14 @@ public final class RowScan {
     for (List<Object[]> part : taken) {
       for (Object[] block : part) {
         double[][] values = (double[][]) block[0];
-        long[] blockKeys = (long[]) block[1];
-        for (int r = 0; r < values.length; r++) {
-          for (int j = 0; j < columns; j++) {
-            out[j][i] = values[r][j];
-          }
-          if (keyAt >= 0) {
-            keys[i] = blockKeys[r];
-          }
-          i++;
+        int m = (Integer) block[2];
+        for (int j = 0; j < columns; j++) {
+          System.arraycopy(values[j], 0, out[j], i, m);
         }
+        if (keyAt >= 0) {
+          System.arraycopy((long[]) block[1], 0, keys, i, m);
+        }
+        i += m;
       }
     }
     return new Pilot(out, keys);
