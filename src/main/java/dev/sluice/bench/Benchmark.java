@@ -94,13 +94,15 @@ public final class Benchmark {
     List<String> numeric = numericColumns(input);
     for (int rep = 0; rep < o.reps(); rep++) {
       times.get("scan").add(time(() -> scan(input, numeric)));
-      times.get("copy").add(time(() -> input.write().mode(SaveMode.Overwrite).parquet(work.resolve("copy").toString())));
+      times.get("copy").add(time(work.resolve("copy"),
+          () -> input.write().mode(SaveMode.Overwrite).parquet(work.resolve("copy").toString())));
       if (!o.skipPeer()) {
-        times.get("peer").add(time(() -> PeerPipeline.run(spark.read().parquet(table.toString()),
-            numeric, work.resolve("peer").toString())));
+        times.get("peer").add(time(work.resolve("peer"), () -> PeerPipeline.run(
+            spark.read().parquet(table.toString()), numeric, work.resolve("peer").toString())));
       }
-      times.get("survey").add(time(() -> sluice("survey", table, work.resolve("survey"))));
-      times.get("run").add(time(() -> sluice("run", table, work.resolve("run"))));
+      times.get("survey").add(
+          time(work.resolve("survey"), () -> sluice("survey", table, work.resolve("survey"))));
+      times.get("run").add(time(work.resolve("run"), () -> sluice("run", table, work.resolve("run"))));
       System.out.println("bench: repetition " + (rep + 1) + " of " + o.reps() + ": " + last(times));
     }
     Map<String, Object> result = summarise(o, times, rankError(spark, input, work.resolve("run")));
@@ -137,7 +139,8 @@ public final class Benchmark {
     Map<String, List<Double>> times = new LinkedHashMap<>();
     tables.keySet().forEach(k -> times.put(k, new ArrayList<>()));
     for (int rep = 0; rep < o.reps(); rep++) {
-      tables.forEach((k, t) -> times.get(k).add(time(() -> sluice("run", t, work.resolve("growth-" + k)))));
+      tables.forEach((k, t) -> times.get(k).add(
+          time(work.resolve("growth-" + k), () -> sluice("run", t, work.resolve("growth-" + k)))));
       System.out.println("bench: repetition " + (rep + 1) + " of " + o.reps() + ": " + last(times));
     }
     Map<String, Double> medians = medians(times);
@@ -254,16 +257,61 @@ public final class Benchmark {
     return out;
   }
 
-  /**
-   * Times one case. A full collection first, outside the timing, so that no case pays for the
-   * garbage the one before it left (the hand-written pipeline caches the whole table, and the
-   * case after it otherwise spends its first seconds collecting that).
-   */
+  /** Times one case that writes nothing ({@link #time(Path, Runnable)}). */
   private static double time(Runnable r) {
+    return time(null, r);
+  }
+
+  /**
+   * Times one case. First, outside the timing: the removal of {@code output} (the case's output
+   * of the repetition before; null: none), a full collection and a flush of the operating
+   * system's dirty pages ({@link #flushWrites}), so that no case pays for what the one before it
+   * left: its garbage (the hand-written pipeline caches the whole table, and the case after it
+   * otherwise spends its first seconds collecting that), or the write-back of its output. Every
+   * writing case so writes to a new directory, as a scheduled job writes a new partition: a copy
+   * with overwrite would otherwise delete its old files first and reuse their memory, while
+   * {@code run} keeps its old output until the new one is published, and only then deletes it.
+   */
+  private static double time(Path output, Runnable r) {
+    if (output != null) {
+      removeTree(output);
+    }
     System.gc();
+    flushWrites();
     long t = System.nanoTime();
     r.run();
     return (System.nanoTime() - t) / 1e9;
+  }
+
+  private static void removeTree(Path dir) {
+    if (!Files.exists(dir)) {
+      return;
+    }
+    try (var paths = Files.walk(dir)) {
+      for (Path p : paths.sorted(java.util.Comparator.reverseOrder()).toList()) {
+        Files.delete(p);
+      }
+    } catch (IOException e) {
+      throw new java.io.UncheckedIOException("Cannot remove the old output " + dir, e);
+    }
+  }
+
+  /**
+   * Runs {@code sync}, where there is one. Linux writes dirty pages back about 30 s after they
+   * were written: without this, the write-back of one case's output (up to a gigabyte for the
+   * copy, the pipeline and {@code run}) fell into the timing of a later case, and took the CPU
+   * time of the kernel from it.
+   */
+  private static void flushWrites() {
+    try {
+      Process sync = new ProcessBuilder("sync").redirectErrorStream(true).start();
+      sync.getInputStream().transferTo(java.io.OutputStream.nullOutputStream());
+      sync.waitFor(5, java.util.concurrent.TimeUnit.MINUTES);
+    } catch (java.io.IOException e) {
+      // No sync command (not a Unix system): the cases run without the flush.
+    } catch (InterruptedException e) {
+      Thread.currentThread().interrupt();
+    }
   }
 
 }

@@ -51,6 +51,7 @@ final class PeerPipeline {
         .setWithMean(true).setWithStd(true).fit(features).transform(features);
     Correlation.corr(scaled, "features").first();
     scaled.drop("features").write().mode(SaveMode.Overwrite).parquet(output);
-    data.unpersist();
+    // Blocking: the cache's blocks (spilled to local disk) are the pipeline's to remove, in its time.
+    data.unpersist(true);
   }
 }
