@@ -172,7 +172,8 @@ public final class ParquetFooters {
         return r.getRecordCount();
       }
     } catch (IOException e) {
-      throw new UncheckedIOException("Cannot read the footer of " + (file == null ? "a file" : file.getPath()), e);
+      String which = file == null ? "a file" : file.getPath().toString();
+      throw new UncheckedIOException("Cannot read the footer of " + which, e);
     }
   }
 }

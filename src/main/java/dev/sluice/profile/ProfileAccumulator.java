@@ -345,7 +345,6 @@ final class ProfileAccumulator implements RowScan.Accumulator<ProfileAccumulator
     }
   }
 
-  /** One non-null value of measured column j. */
   /**
    * {@link #measure} on the non-null values {@code v[0 .. n - 1]} of column j, with the column's
    * accumulators held in locals for the loop (the per-value path of a columnar batch).
@@ -377,6 +376,7 @@ final class ProfileAccumulator implements RowScan.Accumulator<ProfileAccumulator
     invalid[j] += invalids;
   }
 
+  /** One non-null value of measured column j. */
   private void measure(int j, double x) {
     if (Double.isNaN(x)) {
       nan[j]++;

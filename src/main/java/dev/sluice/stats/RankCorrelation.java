@@ -94,6 +94,13 @@ public final class RankCorrelation {
         throw new IllegalArgumentException(
             "Cannot rank row " + i + " of " + rows[i].length + " values among " + columns + " columns");
       }
+      for (int j = 0; j < columns; j++) {
+        if (Double.isInfinite(rows[i][j])) {
+          // Checked here, on the caller's thread: the columns are ranked on several.
+          throw new IllegalArgumentException(
+              "Cannot rank the infinite value " + rows[i][j] + " in row " + i + ", column " + j);
+        }
+      }
       if (weights[i] < 1) {
         throw new IllegalArgumentException("Cannot weight row " + i + " by " + weights[i] + ": weights start at 1");
       }
@@ -117,7 +124,7 @@ public final class RankCorrelation {
       Ranker ranker = new Ranker(n);
       for (int j = s; j < p; j += stripes) {
         present[j] = new byte[n];
-        ranker.rank(u[j], weights, j, present[j]);
+        ranker.rank(u[j], weights, present[j]);
         missing[j] = ranker.missing;
         varies[j] = ranker.groups >= 2;
         columnWeight[j] = ranker.columnWeight;
@@ -191,19 +198,15 @@ public final class RankCorrelation {
     }
 
     /**
-     * Replaces the values of column j by their doubled centred mid-ranks (0 where missing) and
-     * fills present (1 or 0).
+     * Replaces the values of a column (finite or NaN) by their doubled centred mid-ranks (0 where
+     * missing) and fills present (1 or 0).
      */
-    void rank(double[] column, long[] weights, int j, byte[] present) {
+    void rank(double[] column, long[] weights, byte[] present) {
       int n = column.length;
       int m = 0;
       long weight = 0;
       for (int i = 0; i < n; i++) {
         double v = column[i];
-        if (Double.isInfinite(v)) {
-          throw new IllegalArgumentException(
-              "Cannot rank the infinite value " + v + " in row " + i + ", column " + j);
-        }
         if (!Double.isNaN(v)) {
           long bits = Double.doubleToRawLongBits(v == 0.0 ? 0.0 : v);
           // Flip all bits of negatives and the sign bit of positives: unsigned order of the keys
