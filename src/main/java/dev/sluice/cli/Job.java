@@ -105,7 +105,8 @@ public final class Job {
       CompletableFuture<Double> tables = CompletableFuture.supplyAsync(() -> timed(() -> writeTables(fit, out)),
           BESIDE);
       try {
-        Map<String, Long> written = writeTreated(selected, fit.plan(), out, fit.profile().pilotDistinct());
+        Map<String, Long> written = writeTreated(selected, fit.plan(), out, fit.profile().pilotDistinct(),
+            fit.profile().pilot());
         reconcile(read, written);
         rows.putAll(written);
       } catch (RuntimeException e) {
@@ -216,7 +217,7 @@ public final class Job {
     long read = selected.rowsRead().isPresent() ? selected.rowsRead().getAsLong()
         : measured.rows().isPresent() && selected.malformedColumn().isEmpty() ? measured.rows().getAsLong()
         : selected.data().count();
-    Map<String, Long> written = writeTreated(selected, plan, out, Map.of());
+    Map<String, Long> written = writeTreated(selected, plan, out, Map.of(), Map.of());
     reconcile(read, written);
     rows.put("read", read);
     rows.putAll(written);
@@ -294,11 +295,11 @@ public final class Job {
 
   /**
    * Treated and quarantined rows from one read of the input, counted; the caller reconciles them.
-   * {@code pilotDistinct} (empty: none) sets the treated table's Parquet encoding ({@link
+   * {@code pilotDistinct} and {@code pilot} (empty: none) set the treated table's Parquet encoding ({@link
    * ParquetEncoding}).
    */
   private Map<String, Long> writeTreated(InputTable table, Plan plan, OutputLayout out,
-      Map<String, Long> pilotDistinct) {
+      Map<String, Long> pilotDistinct, Map<String, double[]> pilot) {
     TreatmentSplit split = TreatmentSplit.of(
         table.data(), table.wellFormed().schema(), table.malformedColumn(), plan);
     if (split.quarantined().isPresent() && table.malformedColumn().isEmpty()) {
@@ -307,7 +308,8 @@ public final class Job {
     List<String> parts = table.partitionColumns();
     org.apache.hadoop.conf.Configuration hadoop = spark.sessionState().newHadoopConf();
     long dictionaryPage = hadoop.getLong(ParquetEncoding.DICTIONARY_PAGE, ParquetEncoding.DEFAULT_DICTIONARY_PAGE);
-    Map<String, String> encoding = ParquetEncoding.options(pilotDistinct, split.treated().schema(), dictionaryPage);
+    Map<String, String> encoding = ParquetEncoding.options(pilotDistinct, pilot, split.treated().schema(),
+        dictionaryPage);
     long treated = write(split.treated(), out.staged("treated"), parts, encoding, hadoop);
     long held = 0;
     if (split.quarantined().isPresent()) {
