@@ -295,8 +295,8 @@ public final class Job {
 
   /**
    * Treated and quarantined rows from one read of the input, counted; the caller reconciles them.
-   * {@code pilotDistinct} and {@code pilot} (empty: none) set the treated table's Parquet encoding ({@link
-   * ParquetEncoding}).
+   * {@code pilotDistinct} and {@code pilot} (empty: none) set the treated table's Parquet
+   * encoding ({@link ParquetEncoding}).
    */
   private Map<String, Long> writeTreated(InputTable table, Plan plan, OutputLayout out,
       Map<String, Long> pilotDistinct, Map<String, double[]> pilot) {
