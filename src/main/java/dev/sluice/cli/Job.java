@@ -334,10 +334,10 @@ public final class Job {
 
   /**
    * Writes {@code data} with the writer {@code options} and returns its row count, read from the
-   * written files' footers (through {@code hadoop}): the committed output, in which a retried or speculative task's rows
-   * are never counted twice. (Counting rows as they pass to the writer, with Dataset.observe,
-   * lengthened the write by about 0.2 s on the benchmark table and checked nothing the
-   * reconciliation with the rows read does not.)
+   * written files' footers (through {@code hadoop}): the committed output, in which a retried or
+   * speculative task's rows are never counted twice. (Counting rows as they pass to the writer,
+   * with Dataset.observe, lengthened the write by about 0.2 s on the benchmark table and checked
+   * nothing the reconciliation with the rows read does not.)
    */
   private long write(Dataset<Row> data, String dir, List<String> parts, Map<String, String> options,
       org.apache.hadoop.conf.Configuration hadoop) {

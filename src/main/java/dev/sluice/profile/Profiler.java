@@ -35,9 +35,10 @@ import org.apache.spark.sql.vectorized.ColumnarBatch;
  * distinct counts and ranges, and the row sample for rank correlations.
  *
  * <p>Quartiles are exact type 7 whatever the table's size ({@link RankSearch}). A row count runs
- * first (served from file footers for Parquet and ORC); on a table too large to hold a column in
- * memory, a pilot sample of the first rows of a few spread partitions ({@link #pilotPartitions})
- * places the windows whose values the pass keeps. A pilot that placed them badly costs an extra
+ * first (from the files' footers for a plain Parquet read, {@link ParquetFooters#rowsRead}, else
+ * Spark's count); on a table too large to hold a column in memory, a pilot sample of the first
+ * rows of a few spread partitions ({@link #pilotPartitions}) places the windows whose values the
+ * pass keeps. A pilot that placed them badly costs an extra
  * pass, never accuracy. Columns using the MAD method cost one more pass, shared by all of them,
  * because the MAD is a median of distances from the median.
  */
