@@ -47,6 +47,10 @@ public final class OrderWindows implements Serializable {
    * starts from them; null until a selection (reset by every add and merge).
    */
   private transient int[][] pivots;
+  /** Scratch of {@link #addAll}: each value's region. */
+  private transient int[] regionScratch;
+  /** The region table of {@link #addAll}, built on first use. */
+  private transient RegionLookup lookup;
 
   /**
    * @param lo first key of each window, ascending
@@ -130,6 +134,162 @@ public final class OrderWindows implements Serializable {
       buckets[w][bucketOf(w, k)]++;
     }
     return 2 * w + 1;
+  }
+
+  /**
+   * Adds the finite values {@code x[0 .. n - 1]} (not checked) as {@link #add} would one at a time,
+   * and copies them into {@code grouped} by region: region r's values, in the order they came,
+   * fill {@code grouped[starts[r] .. starts[r + 1] - 1]}. {@code grouped} needs room for n values
+   * and {@code starts} for {@link #regions()} + 1 entries.
+   *
+   * <p>A value's region is found without branches (the number of windows that start at or below its
+   * key plus the number that end below it), and the values are then moved by a counting sort: a
+   * loop with no branch the data decides, where {@link #add}'s tests are hard to predict for values
+   * that fall on both sides of a window at random.
+   */
+  public void addAll(double[] x, int n, double[] grouped, int[] starts) {
+    int regions = counts.length;
+    if (regionScratch == null || regionScratch.length < n) {
+      regionScratch = new int[Math.max(n, 4096)];
+    }
+    if (lookup == null) {
+      lookup = new RegionLookup(lo, hi);
+    }
+    RegionLookup look = lookup;
+    int[] region = regionScratch;
+    int[] inBatch = new int[regions];
+    for (int i = 0; i < n; i++) {
+      int r = look.regionOrMinusOne(x[i]);
+      if (r < 0) {
+        r = regionOf(x[i]);
+      }
+      region[i] = r;
+      inBatch[r]++;
+    }
+    int start = 0;
+    for (int r = 0; r < regions; r++) {
+      starts[r] = start;
+      start += inBatch[r];
+    }
+    starts[regions] = start;
+    int[] next = Arrays.copyOf(starts, regions);
+    for (int i = 0; i < n; i++) {
+      grouped[next[region[i]]++] = x[i];
+    }
+    holdGrouped(grouped, starts, inBatch);
+  }
+
+  /**
+   * The region of a value from one table lookup, for most values. A value's region is the number
+   * of thresholds at or below it: per window, its first value and the value just above its last
+   * key. The table splits the thresholds' span into equal slots by {@code slot(x)}, which is
+   * monotone in x (a difference, a product, a sum, a truncation to long and clamps, each monotone). A
+   * threshold below x's slot is therefore below x and one above x's slot is above x, so a slot that
+   * holds no threshold has one region for all its values, exactly. Values in a slot that holds a
+   * threshold (a few in a thousand) get -1 and are placed by comparing keys.
+   */
+  private static final class RegionLookup {
+    private static final double SLOTS = 1000.0;
+    private final double start;
+    private final double scale;
+    /** Region per slot + 1 (slot 0: below the first threshold), -1 where a threshold falls. */
+    private final int[] table;
+
+    RegionLookup(long[] lo, long[] hi) {
+      int w = lo.length;
+      double[] thresholds = new double[2 * w];
+      for (int i = 0; i < w; i++) {
+        thresholds[2 * i] = threshold(lo[i]);
+        thresholds[2 * i + 1] = hi[i] == Long.MAX_VALUE ? Double.NaN : threshold(hi[i] + 1);
+      }
+      double first = thresholds[0];
+      double last = thresholds[2 * w - 1];
+      double s = (SLOTS - 24.0) / (last - first);
+      if (!Double.isFinite(first) || !Double.isFinite(last) || !(s > 0) || !Double.isFinite(s)) {
+        start = 0.0;
+        scale = 0.0;
+        table = null;
+        return;
+      }
+      start = first;
+      scale = s;
+      int[] t = new int[(int) SLOTS + 2];
+      int[] below = new int[t.length + 1];
+      for (double th : thresholds) {
+        int slot = slot(th);
+        t[slot] = -1;
+        below[slot + 1]++;
+      }
+      int count = 0;
+      for (int i = 0; i < t.length; i++) {
+        count += below[i];
+        if (t[i] == 0) {
+          t[i] = count;
+        }
+      }
+      table = t;
+    }
+
+    /** The smallest double whose key is at least k, or an infinity beyond the finite ones. */
+    private static double threshold(long k) {
+      if (k > key(Double.MAX_VALUE)) {
+        return Double.POSITIVE_INFINITY;
+      }
+      if (k < key(-Double.MAX_VALUE)) {
+        return Double.NEGATIVE_INFINITY;
+      }
+      return value(k);
+    }
+
+    /** Clamped in longs: Math.min and Math.max on doubles cost more (NaN and -0.0 rules). */
+    private int slot(double x) {
+      long s = (long) ((x - start) * scale + 1.0);
+      return (int) Math.min(Math.max(s, 0L), (long) SLOTS + 1);
+    }
+
+    int regionOrMinusOne(double x) {
+      return table == null ? -1 : table[slot(x)];
+    }
+  }
+
+  /** Counts of a batch grouped by {@link #addAll}, and the values of its windows held or bucketed. */
+  private void holdGrouped(double[] grouped, int[] starts, int[] inBatch) {
+    for (int r = 0; r < counts.length; r++) {
+      counts[r] += inBatch[r];
+    }
+    for (int w = 0; w < lo.length; w++) {
+      int r = 2 * w + 1;
+      int from = starts[r];
+      int to = starts[r + 1];
+      if (held[w] != null && to > from && heldSize[w] + (to - from) <= maxHeld) {
+        // All of them fit: appended at once, as hold would one by one.
+        if (pivots != null) {
+          pivots[w] = null;
+        }
+        int size = heldSize[w];
+        int need = size + (to - from);
+        if (need > held[w].length) {
+          held[w] = Arrays.copyOf(held[w], (int) Math.min(maxHeld, Math.max(need, 2L * held[w].length)));
+        }
+        double[] h = held[w];
+        for (int i = from; i < to; i++) {
+          h[size++] = grouped[i] + 0.0;
+        }
+        heldSize[w] = size;
+      } else if (held[w] != null) {
+        for (int i = starts[r]; i < starts[r + 1]; i++) {
+          if (held[w] != null) {
+            hold(w, grouped[i] + 0.0);
+          } else {
+            buckets[w][bucketOf(w, key(grouped[i]))]++;
+          }
+        }
+      } else if (buckets[w] != null) {
+        for (int i = starts[r]; i < starts[r + 1]; i++) {
+          buckets[w][bucketOf(w, key(grouped[i]))]++;
+        }
+      }
+    }
   }
 
   /** Number of regions: gaps and windows, 2 w + 1. */

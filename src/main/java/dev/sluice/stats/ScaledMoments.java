@@ -99,6 +99,60 @@ public final class ScaledMoments implements Serializable {
     }
   }
 
+  /**
+   * Adds {@code xs[from .. to - 1]} in that order: the same state, bit for bit, as {@link #add} on
+   * each of them, with the block's sums, minimum and maximum held in locals between folds.
+   *
+   * @throws IllegalArgumentException for NaN or an infinite value, naming it; the values before
+   *     it are added
+   */
+  public void addAll(double[] xs, int from, int to) {
+    int i = from;
+    while (i < to) {
+      double first = xs[i];
+      if (!(Math.abs(first) < SWITCH_AT)) {
+        add(first);
+        i++;
+        continue;
+      }
+      if (blockCount == 0) {
+        blockShift = count == 0 ? first * factor : shift + shiftedMean;
+      }
+      int end = Math.min(to, i + (BLOCK - blockCount));
+      double f = factor;
+      double b = blockShift;
+      double s = blockSum;
+      double q = blockSq;
+      double lo = min;
+      double hi = max;
+      int k = i;
+      for (; k < end; k++) {
+        double x = xs[k];
+        if (!(Math.abs(x) < SWITCH_AT)) {
+          break;
+        }
+        double y = x * f - b;
+        s += y;
+        q += y * y;
+        if (x <= lo) {
+          lo = Math.min(lo, x);
+        }
+        if (x >= hi) {
+          hi = Math.max(hi, x);
+        }
+      }
+      blockSum = s;
+      blockSq = q;
+      min = lo;
+      max = hi;
+      blockCount += k - i;
+      i = k;
+      if (blockCount == BLOCK) {
+        fold();
+      }
+    }
+  }
+
   /** Rare path of {@link #add}: rejects non-finite values and switches to the scaled state once. */
   private void beforeLargeValue(double x) {
     if (!Double.isFinite(x)) {
