@@ -29,7 +29,8 @@ import java.util.Arrays;
  * m_j follow as the column totals minus the same sums over the rows where k is missing, which a
  * row adds only for its missing entries (3 p cells each). A row thus costs p(p + 1) / 2 products,
  * added a block of rows at a time with several partial sums so that the loops run at the
- * processor's throughput, plus 3 p per missing entry. Centring on the median keeps the
+ * processor's throughput, plus 3 p per missing entry. The column totals of u are added with the
+ * block too, and the totals of u^2 are the triangle's diagonal. Centring on the median keeps the
  * cancellation in sum u^2 - (sum u)^2 / n small: |mean - median| is at most one standard
  * deviation for any distribution, so the relative error of a variance stays within a small
  * multiple of n times the unit roundoff, and usually near its square root. A centre many standard
@@ -56,9 +57,11 @@ public final class CoMoments implements Serializable {
   /** Power-of-two factors applied to each column's deviations (see {@link PowerScale}). */
   private final double[] scales;
   private long rows;
-  /** Over every row: sums of u and u^2 (u = 0 where missing) and the count of present values. */
+  /**
+   * Over every row: the sum of u (u = 0 where missing) and the count of present values. The sum
+   * of u^2 is the triangle's diagonal.
+   */
   private final double[] sumU;
-  private final double[] sumU2;
   private final double[] present;
   /** Over every row: sum u_j u_k, upper triangle (j <= k) of a p x p array. */
   private final double[] gram;
@@ -81,9 +84,13 @@ public final class CoMoments implements Serializable {
   private transient double[][] block;
   private transient double[] u;
   private transient byte[] missingStates;
-  /** Scratch of {@link #addColumns}: one row's states, and which rows of a block hold a constant. */
-  private transient byte[] rowStates;
-  private transient boolean[] constantRow;
+  /**
+   * Scratch of {@link #addColumns}: per column, the batch's rows where it is in a constant state
+   * and their number; per constant state, the rows where one column is in it.
+   */
+  private transient int[][] constantRows;
+  private transient int[] constantCount;
+  private transient int[][] stateRows;
   private transient int pending;
   private static final int BLOCK = 64;
 
@@ -122,7 +129,6 @@ public final class CoMoments implements Serializable {
     this.centres = centres.clone();
     this.scales = scales.clone();
     this.sumU = new double[p];
-    this.sumU2 = new double[p];
     this.present = new double[p];
     this.gram = new double[p * p];
     this.stateU = new double[STATES][p * p];
@@ -154,7 +160,6 @@ public final class CoMoments implements Serializable {
     for (int a = 0; a < q; a++) {
       int j = keep[a];
       out.sumU[a] = sumU[j];
-      out.sumU2[a] = sumU2[j];
       out.present[a] = present[j];
       for (int b = 0; b < q; b++) {
         int k = keep[b];
@@ -233,8 +238,6 @@ public final class CoMoments implements Serializable {
       if (state == VALUE) {
         double x = values[j];
         d = x * scales[j] - centres[j] * scales[j];
-        sumU[j] += d;
-        sumU2[j] += d * d;
         present[j] += 1.0;
       } else {
         constants++;
@@ -273,26 +276,18 @@ public final class CoMoments implements Serializable {
       block = new double[p][BLOCK];
       u = new double[p];
     }
-    if (rowStates == null) {
-      rowStates = new byte[p];
-      constantRow = new boolean[BLOCK];
+    if (constantRows == null || constantRows[0].length < count) {
+      int size = Math.max(count, 4096);
+      constantRows = new int[p][size];
+      stateRows = new int[STATES][size];
+      constantCount = new int[p];
     }
+    java.util.Arrays.fill(constantCount, 0);
     int done = 0;
     while (done < count) {
       int m = Math.min(BLOCK - pending, count - done);
-      java.util.Arrays.fill(constantRow, 0, m, false);
       for (int j = 0; j < p; j++) {
         centre(j, values[j], states[j], which, done, m);
-      }
-      for (int t = 0; t < m; t++) {
-        if (constantRow[t]) {
-          int r = which[done + t];
-          for (int k = 0; k < p; k++) {
-            u[k] = block[k][pending + t];
-            rowStates[k] = states[k][r];
-          }
-          addConstants(rowStates);
-        }
       }
       rows += m;
       pending += m;
@@ -301,36 +296,143 @@ public final class CoMoments implements Serializable {
         flush();
       }
     }
+    addConstantColumns(values, states);
   }
 
   /**
    * Block entries of column j for rows which[from .. from + m - 1], at {@code pending}: the centred,
-   * scaled value, or 0 for an entry in a constant state (its row then marked in constantRow).
+   * scaled value, or 0 for an entry in a constant state, whose row is appended to the column's
+   * {@link #constantRows} (without a branch: every row is written, and the count moves only for
+   * a constant).
    */
   private void centre(int j, double[] x, byte[] st, int[] which, int from, int m) {
     double[] b = block[j];
     double scale = scales[j];
     double shift = centres[j] * scales[j];
-    double su = sumU[j];
-    double su2 = sumU2[j];
-    int constants = 0;
+    int[] list = constantRows[j];
+    int constants = constantCount[j];
+    int values = 0;
     for (int t = 0; t < m; t++) {
       int r = which[from + t];
-      double d = 0.0;
-      if (st[r] == VALUE) {
-        d = x[r] * scale - shift;
-        su += d;
-        su2 += d * d;
-      } else {
-        constantRow[t] = true;
-        constants++;
-      }
-      b[pending + t] = d;
+      boolean value = st[r] == VALUE;
+      b[pending + t] = value ? x[r] * scale - shift : 0.0;
+      values += value ? 1 : 0;
+      list[constants] = r;
+      constants += value ? 0 : 1;
     }
-    sumU[j] = su;
-    sumU2[j] = su2;
+    constantCount[j] = constants;
     // Counts are whole numbers far below 2^53: added at once, they come out as one at a time.
-    present[j] += m - constants;
+    present[j] += values;
+  }
+
+  /**
+   * {@link #addConstants} for the batch's rows in a constant state, column by column: for each
+   * column k and constant state s, the rows where k is in s, then every column j's sums over those
+   * rows in their order. Each sum gets the same additions in the same order as row by row, with the
+   * sum in a register rather than read and written back per row.
+   */
+  private void addConstantColumns(double[][] values, byte[][] states) {
+    int[] sizes = new int[STATES];
+    for (int k = 0; k < p; k++) {
+      byte[] sk = states[k];
+      int[] list = constantRows[k];
+      int size = constantCount[k];
+      if (size == 0) {
+        continue;
+      }
+      java.util.Arrays.fill(sizes, 0);
+      for (int i = 0; i < size; i++) {
+        int r = list[i];
+        int s = sk[r] - 1;
+        stateRows[s][sizes[s]++] = r;
+      }
+      for (int s = 1; s <= STATES; s++) {
+        for (int from = 0; from < sizes[s - 1]; from += STATE_CHUNK) {
+          int[] chunk = from == 0 ? stateRows[s - 1]
+              : java.util.Arrays.copyOfRange(stateRows[s - 1], from, sizes[s - 1]);
+          addState(k, s, chunk, Math.min(STATE_CHUNK, sizes[s - 1] - from), values, states);
+        }
+      }
+    }
+  }
+
+  /** Most rows {@link #addState} takes at once: its counts are 16-bit fields of one long. */
+  private static final int STATE_CHUNK = (1 << 16) - 1;
+
+  /**
+   * The sums of every column over the rows {@code list[0 .. size - 1]} (at most {@link
+   * #STATE_CHUNK}), where column k is in state s; two columns at a time, so that four sums are in
+   * flight. Each entry's state is counted in a field of 16 bits: {@code 1L << (16 * state)}.
+   */
+  private void addState(int k, int s, int[] list, int size, double[][] values, byte[][] states) {
+    int base = k * p;
+    double[] su = stateU[s - 1];
+    double[] su2 = stateU2[s - 1];
+    int j = 0;
+    for (; j + 1 < p; j += 2) {
+      double[] x0 = values[j];
+      double[] x1 = values[j + 1];
+      byte[] st0 = states[j];
+      byte[] st1 = states[j + 1];
+      double scale0 = scales[j];
+      double scale1 = scales[j + 1];
+      double shift0 = centres[j] * scales[j];
+      double shift1 = centres[j + 1] * scales[j + 1];
+      double a0 = su[base + j];
+      double a1 = su[base + j + 1];
+      double b0 = su2[base + j];
+      double b1 = su2[base + j + 1];
+      long counts0 = 0;
+      long counts1 = 0;
+      for (int t = 0; t < size; t++) {
+        int r = list[t];
+        int state0 = st0[r];
+        int state1 = st1[r];
+        double d0 = state0 == VALUE ? x0[r] * scale0 - shift0 : 0.0;
+        double d1 = state1 == VALUE ? x1[r] * scale1 - shift1 : 0.0;
+        a0 += d0;
+        a1 += d1;
+        b0 += d0 * d0;
+        b1 += d1 * d1;
+        counts0 += 1L << (state0 << 4);
+        counts1 += 1L << (state1 << 4);
+      }
+      su[base + j] = a0;
+      su[base + j + 1] = a1;
+      su2[base + j] = b0;
+      su2[base + j + 1] = b1;
+      addStateCounts(s, base + j, counts0);
+      addStateCounts(s, base + j + 1, counts1);
+    }
+    if (j < p) {
+      double[] x = values[j];
+      byte[] st = states[j];
+      double scale = scales[j];
+      double shift = centres[j] * scales[j];
+      double a = su[base + j];
+      double b = su2[base + j];
+      long counts = 0;
+      for (int t = 0; t < size; t++) {
+        int r = list[t];
+        int state = st[r];
+        double d = state == VALUE ? x[r] * scale - shift : 0.0;
+        a += d;
+        b += d * d;
+        counts += 1L << (state << 4);
+      }
+      su[base + j] = a;
+      su2[base + j] = b;
+      addStateCounts(s, base + j, counts);
+    }
+  }
+
+  /** Adds counts packed by {@link #addState} to cell {@code cell} of state s's counts. */
+  private void addStateCounts(int s, int cell, long counts) {
+    statePresent[s - 1][cell] += counts & 0xFFFF;
+    int row = (s - 1) * STATES;
+    for (int t = 1; t <= STATES; t++) {
+      stateCount[row + t - 1][cell] += (counts >>> (16 * t)) & 0xFFFF;
+    }
   }
 
   /** The sums over the rows where a column is in a constant state, for this row's such entries. */
@@ -359,7 +461,8 @@ public final class CoMoments implements Serializable {
 
   /**
    * Adds the pending rows' products to the triangle, two columns against two at a time: four sums
-   * from four loads per row, where one pair at a time needs two loads per product.
+   * from four loads per row, where one pair at a time needs two loads per product. The blocks on
+   * the diagonal also add the columns' sums of u.
    */
   private void flush() {
     if (pending == 0) {
@@ -367,7 +470,8 @@ public final class CoMoments implements Serializable {
     }
     int j = 0;
     for (; j + 1 < p; j += 2) {
-      int k = j;
+      addDiagonal(j, pending);
+      int k = j + 2;
       for (; k + 1 < p; k += 2) {
         addTwoByTwo(j, k, pending);
       }
@@ -378,15 +482,43 @@ public final class CoMoments implements Serializable {
     if (j < p) {
       double[] a = block[j];
       double s = 0;
+      double s2 = 0;
       for (int r = 0; r < pending; r++) {
-        s += a[r] * a[r];
+        s += a[r];
+        s2 += a[r] * a[r];
       }
-      gram[j * p + j] += s;
+      sumU[j] += s;
+      gram[j * p + j] += s2;
     }
     pending = 0;
   }
 
-  /** Cells (j, k), (j, k + 1), (j + 1, k), (j + 1, k + 1) of the upper triangle, for k >= j. */
+  /** Cells (j, j), (j, j + 1) and (j + 1, j + 1), and the sums of u of columns j and j + 1. */
+  private void addDiagonal(int j, int n) {
+    double[] a0 = block[j];
+    double[] a1 = block[j + 1];
+    double s0 = 0;
+    double s1 = 0;
+    double s00 = 0;
+    double s01 = 0;
+    double s11 = 0;
+    for (int r = 0; r < n; r++) {
+      double x0 = a0[r];
+      double x1 = a1[r];
+      s0 += x0;
+      s1 += x1;
+      s00 += x0 * x0;
+      s01 += x0 * x1;
+      s11 += x1 * x1;
+    }
+    sumU[j] += s0;
+    sumU[j + 1] += s1;
+    gram[j * p + j] += s00;
+    gram[j * p + j + 1] += s01;
+    gram[(j + 1) * p + j + 1] += s11;
+  }
+
+  /** Cells (j, k), (j, k + 1), (j + 1, k), (j + 1, k + 1) of the upper triangle, for k > j + 1. */
   private void addTwoByTwo(int j, int k, int n) {
     double[] a0 = block[j];
     double[] a1 = block[j + 1];
@@ -408,10 +540,7 @@ public final class CoMoments implements Serializable {
     }
     gram[j * p + k] += s00;
     gram[j * p + k + 1] += s01;
-    if (k > j) {
-      // On the diagonal block (k == j) this cell is (j + 1, j), below the triangle.
-      gram[(j + 1) * p + k] += s10;
-    }
+    gram[(j + 1) * p + k] += s10;
     gram[(j + 1) * p + k + 1] += s11;
   }
 
@@ -448,7 +577,6 @@ public final class CoMoments implements Serializable {
     other.flush();
     rows += other.rows;
     addInto(sumU, other.sumU);
-    addInto(sumU2, other.sumU2);
     addInto(present, other.present);
     addInto(gram, other.gram);
     for (int i = 0; i < STATES; i++) {
@@ -568,8 +696,8 @@ public final class CoMoments implements Serializable {
     double nBoth = present[j];
     double sjBoth = sumU[j];
     double skBoth = sumU[k];
-    double sjjBoth = sumU2[j];
-    double skkBoth = sumU2[k];
+    double sjjBoth = gram[j * p + j];
+    double skkBoth = gram[k * p + k];
     for (int s = 0; s < STATES; s++) {
       nBoth -= statePresent[s][kj];
       sjBoth -= stateU[s][kj];
