@@ -133,22 +133,23 @@ public final class RowSample implements Serializable {
 
   /**
    * The canonical 64-bit hash of a row's content. Each value is first reduced to 64 bits, with
-   * -0.0 taken as 0.0 and every NaN as the canonical NaN ({@link Double#doubleToLongBits}). Values
-   * are folded in with one step built on the SplitMix64 output function (Stafford's "Mix13" 64-bit
-   * finalizer):
+   * -0.0 taken as 0.0 and every NaN as the canonical NaN ({@link Double#doubleToLongBits}). The
+   * value at position i goes to lane i mod 4; each lane starts at 0 and takes its values in order
+   * with one multiply and a rotation, and the lanes are then folded and finished once with the
+   * SplitMix64 output function (Stafford's "Mix13" 64-bit finalizer):
    *
    * <pre>
-   *   step(h, x) = mix13((h ^ x) + 0x9E3779B97F4A7C15)
+   *   lane = rotl((lane ^ bits(v)) * K, 29)                 K = 0x9E3779B97F4A7C15
+   *   hash = mix13(((lane0 * K + lane1) * K + lane2) * K + lane3 + K)
    *   mix13(z):  z = (z ^ (z >>> 30)) * 0xBF58476D1CE4E5B9; z = (z ^ (z >>> 27)) * 0x94D049BB133111EB;
    *              return z ^ (z >>> 31)
    * </pre>
    *
-   * The value at position i goes to lane i mod 4: each lane starts at 0 and takes its values in
-   * order, {@code lane = step(lane, bits(v))}; the hash is then {@code step(step(step(step(0,
-   * lane0), lane1), lane2), lane3)}. The four lanes are independent chains, so the processor works
-   * on them in parallel. Each step is a bijection of its state for a fixed input and of its input
-   * for a fixed state, so rows that differ in a single value never collide; otherwise the hash
-   * behaves like a random function of the content.
+   * The four lanes are independent chains, so the processor works on them in parallel. Each lane
+   * step is a bijection of the lane for a fixed value and of the value for a fixed lane, and the
+   * fold is a bijection of each lane for the others fixed, so rows that differ in a single value
+   * never collide; otherwise the finalizer makes the hash behave like a random function of the
+   * content.
    */
   public static long hash(double[] row) {
     long h0 = 0L;
@@ -172,7 +173,7 @@ public final class RowSample implements Serializable {
     if (i < n) {
       h2 = step(h2, bits(row[i]));
     }
-    return step(step(step(step(0L, h0), h1), h2), h3);
+    return finish(h0, h1, h2, h3);
   }
 
   /**
@@ -206,19 +207,27 @@ public final class RowSample implements Serializable {
       long[] h2 = lanes[2];
       long[] h3 = lanes[3];
       for (int r = 0; r < n; r++) {
-        h0[r] = step(step(step(step(0L, h0[r]), h1[r]), h2[r]), h3[r]);
+        h0[r] = finish(h0[r], h1[r], h2[r], h3[r]);
       }
       return h0;
     }
   }
 
-  private static long step(long h, long x) {
-    return mix13((h ^ x) + GAMMA);
+  private static long step(long lane, long x) {
+    return Long.rotateLeft((lane ^ x) * GAMMA, 29);
   }
 
-  private static long bits(double v) {
-    return v == 0.0 ? 0L : Double.doubleToLongBits(v);
+  private static long finish(long h0, long h1, long h2, long h3) {
+    return mix13(((h0 * GAMMA + h1) * GAMMA + h2) * GAMMA + h3 + GAMMA);
   }
+
+  /** The value's bits, -0.0 as 0.0 and every NaN as the canonical NaN, without a branch. */
+  private static long bits(double v) {
+    long raw = Double.doubleToRawLongBits(v + 0.0);
+    return v != v ? CANONICAL_NAN : raw;
+  }
+
+  private static final long CANONICAL_NAN = 0x7ff8000000000000L;
 
   private static long mix13(long z) {
     z = (z ^ (z >>> 30)) * 0xBF58476D1CE4E5B9L;

@@ -305,26 +305,20 @@ class RowSampleTest {
     return unXorShift(z, 30);
   }
 
-  private static final long GAMMA = 0x9E3779B97F4A7C15L;
-
-  private static long mix13(long z) {
-    z = (z ^ (z >>> 30)) * 0xBF58476D1CE4E5B9L;
-    z = (z ^ (z >>> 27)) * 0x94D049BB133111EBL;
-    return z ^ (z >>> 31);
-  }
+  private static final long K = 0x9E3779B97F4A7C15L;
 
   /**
    * A row (a, b) different from {@code row} (of width 2) with the same hash, by running the
-   * documented construction backwards: for width 2 the hash is step(step(step(step(0, L0), L1), 0),
-   * 0) with L0 = step(0, bits(a)), L1 = step(0, bits(b)) and step(h, x) = mix13((h ^ x) + GAMMA).
+   * documented construction backwards: for width 2 the lanes are L0 = rotl(bits(a) K, 29), L1 =
+   * rotl(bits(b) K, 29) and L2 = L3 = 0, and the hash is mix13(L0 K^3 + L1 K^2 + K).
    */
   private static double[] collidingWith(double[] row) {
-    long beforeLast = unMix13(RowSample.hash(row)) - GAMMA; // state before the lane-3 step (x = 0)
-    long afterLane1 = unMix13(beforeLast) - GAMMA; // state before the lane-2 step (x = 0)
+    long folded = unMix13(RowSample.hash(row)) - K; // L0 K^3 + L1 K^2
+    long inverse = inverseOdd(K);
     for (double a = 1.0; ; a++) {
-      long afterLane0 = mix13(mix13(Double.doubleToLongBits(a) + GAMMA) + GAMMA);
-      long lane1 = (unMix13(afterLane1) - GAMMA) ^ afterLane0;
-      double b = Double.longBitsToDouble(unMix13(lane1) - GAMMA);
+      long lane0 = Long.rotateLeft(Double.doubleToLongBits(a) * K, 29);
+      long lane1 = (folded - lane0 * K * K * K) * inverse * inverse;
+      double b = Double.longBitsToDouble(Long.rotateRight(lane1, 29) * inverse);
       if (!Double.isNaN(b) && b != 0.0 && a != row[0]) {
         return new double[] {a, b};
       }
