@@ -71,6 +71,8 @@ final class ProfileAccumulator implements RowScan.Accumulator<ProfileAccumulator
   /** Rows by the set of tracked columns that are null in them (a bit mask), rows with none left out. */
   final HashedCounts<Long> together;
   private transient long[] batchMasks;
+  /** Scratch of {@link #togetherInBatch}: rows of a batch by their only null column (64: none). */
+  private transient long[] singleMasks;
   /** Scratch of {@link #measureColumn}: a batch's finite, valid values, and the same by region. */
   private transient double[] kept;
   private transient double[] grouped;
@@ -326,6 +328,9 @@ final class ProfileAccumulator implements RowScan.Accumulator<ProfileAccumulator
     if (batchMasks == null || batchMasks.length < n) {
       batchMasks = new long[Math.max(n, 4096)];
     }
+    if (singleMasks == null) {
+      singleMasks = new long[Long.SIZE + 1];
+    }
     long[] masks = batchMasks;
     java.util.Arrays.fill(masks, 0, n, 0L);
     for (int s = 0; s < trackedMeasured.length; s++) {
@@ -344,8 +349,26 @@ final class ProfileAccumulator implements RowScan.Accumulator<ProfileAccumulator
         }
       }
     }
+    // Most rows have no tracked column null or only one: counted by the bit's position (64 for
+    // none), and only the rest one by one in the table.
+    long[] single = singleMasks;
     for (int r = 0; r < n; r++) {
-      countTogether(masks[r]);
+      long mask = masks[r];
+      if ((mask & (mask - 1)) == 0) {
+        single[Long.numberOfTrailingZeros(mask)]++;
+      } else {
+        countTogether(mask);
+      }
+    }
+    for (int s = 0; s < Long.SIZE; s++) {
+      long c = single[s];
+      if (c > 0) {
+        long mask = 1L << s;
+        if (!together.increment(mask, c)) {
+          together.insert(mask, mask, c);
+        }
+        single[s] = 0;
+      }
     }
   }
 
