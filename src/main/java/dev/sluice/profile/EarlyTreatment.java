@@ -46,6 +46,8 @@ final class EarlyTreatment implements Serializable {
   private transient byte[][] columnStates;
   private transient boolean[] asideRow;
   private transient int[] placedRows;
+  /** Scratch of {@link #placeColumn}: the rows whose entry is not simply kept. */
+  private transient int[] otherRows;
 
   /**
    * @param lowBand per column {low, high} of the lower limit's band, or null for no lower limit
@@ -135,6 +137,7 @@ final class EarlyTreatment implements Serializable {
       columnStates = new byte[p][size];
       asideRow = new boolean[size];
       placedRows = new int[size];
+      otherRows = new int[size];
     }
     java.util.Arrays.fill(asideRow, 0, n, false);
     for (int s = 0; s < p; s++) {
@@ -171,13 +174,18 @@ final class EarlyTreatment implements Serializable {
       kept = Math.max(kept, Math.max(lowTop[s], lowEdge[s]));
       keptTop = Math.min(keptTop, Math.min(highBottom[s], highEdge[s]));
     }
+    // Without a branch: every entry is first a value, and the others are listed for place.
+    int[] others = otherRows;
+    int count = 0;
     for (int r = 0; r < n; r++) {
       double x = raw[r];
-      if (x >= kept && x <= keptTop) {
-        states[r] = CoMoments.VALUE;
-        continue;
-      }
-      byte state = place(s, steps.valid(x));
+      states[r] = CoMoments.VALUE;
+      others[count] = r;
+      count += x >= kept & x <= keptTop ? 0 : 1;
+    }
+    for (int i = 0; i < count; i++) {
+      int r = others[i];
+      byte state = place(s, steps.valid(raw[r]));
       if (state == ASIDE) {
         asideRow[r] = true;
       }
