@@ -263,19 +263,12 @@ public final class OrderWindows implements Serializable {
       int to = starts[r + 1];
       if (held[w] != null && to > from && heldSize[w] + (to - from) <= maxHeld) {
         // All of them fit: appended at once, as hold would one by one.
-        if (pivots != null) {
-          pivots[w] = null;
-        }
         int size = heldSize[w];
-        int need = size + (to - from);
-        if (need > held[w].length) {
-          held[w] = Arrays.copyOf(held[w], (int) Math.min(maxHeld, Math.max(need, 2L * held[w].length)));
-        }
+        appendHeld(w, grouped, from, to - from);
         double[] h = held[w];
-        for (int i = from; i < to; i++) {
-          h[size++] = grouped[i] + 0.0;
+        for (int i = size; i < heldSize[w]; i++) {
+          h[i] += 0.0;
         }
-        heldSize[w] = size;
       } else if (held[w] != null) {
         for (int i = starts[r]; i < starts[r + 1]; i++) {
           if (held[w] != null) {
@@ -390,6 +383,23 @@ public final class OrderWindows implements Serializable {
     heldSize[w] = n + 1;
   }
 
+  /** Appends {@code count} values from {@code from} to window w's held values (they fit). */
+  private void appendHeld(int w, double[] from, int at, int count) {
+    if (count == 0) {
+      return;
+    }
+    if (pivots != null) {
+      pivots[w] = null;
+    }
+    int size = heldSize[w];
+    int need = size + count;
+    if (need > held[w].length) {
+      held[w] = Arrays.copyOf(held[w], (int) Math.min(maxHeld, Math.max(need, 2L * held[w].length)));
+    }
+    System.arraycopy(from, at, held[w], size, count);
+    heldSize[w] = need;
+  }
+
   private void toHistogram(int w) {
     long[] b = new long[BUCKETS];
     for (int i = 0; i < heldSize[w]; i++) {
@@ -438,6 +448,13 @@ public final class OrderWindows implements Serializable {
             buckets[w][bucketOf(w, key(other.held[w][i]))]++;
           }
         }
+        continue;
+      }
+      int size = heldSize[w];
+      int more = other.heldSize[w];
+      if (size + more <= maxHeld) {
+        // All of them fit: copied at once (held values are already free of -0.0).
+        appendHeld(w, other.held[w], 0, more);
         continue;
       }
       for (int i = 0; i < other.heldSize[w]; i++) {

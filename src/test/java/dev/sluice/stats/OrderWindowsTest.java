@@ -123,6 +123,34 @@ class OrderWindowsTest {
     }
   }
 
+  @Test
+  void partsMergedHoldWhatOneAccumulatorHolds() {
+    SplittableRandom random = new SplittableRandom(71);
+    for (OrderWindows layout : layouts()) {
+      double[] x = values(layout, random, 6000);
+      OrderWindows whole = layout.emptyCopy();
+      OrderWindows[] parts = {layout.emptyCopy(), layout.emptyCopy(), layout.emptyCopy()};
+      for (int i = 0; i < x.length; i++) {
+        whole.add(x[i]);
+        parts[i % 3].add(x[i]);
+      }
+      OrderWindows merged = parts[0].merge(parts[1]).merge(parts[2]);
+      for (int r = 0; r < layout.regions(); r++) {
+        assertThat(merged.regionCount(r)).isEqualTo(whole.regionCount(r));
+      }
+      for (int w = 0; w < layout.windows(); w++) {
+        // The same total either way, so a window overflows in both or in neither.
+        assertThat(merged.resolved(w)).isEqualTo(whole.resolved(w));
+        assertThat(merged.histogram(w)).isEqualTo(whole.histogram(w));
+        double[] a = merged.heldValues(w);
+        double[] b = whole.heldValues(w);
+        Arrays.sort(a);
+        Arrays.sort(b);
+        assertThat(a).containsExactly(b);
+      }
+    }
+  }
+
   private static long[] window(OrderWindows layout) {
     long[] out = new long[2 * layout.windows()];
     for (int w = 0; w < layout.windows(); w++) {
