@@ -107,9 +107,12 @@ public final class Profiler {
     ProfileAccumulator acc = proto.early != null
         ? KeptRows.run(parts, proto::emptyCopy, kept)
         : RowScan.merged(parts, proto::emptyCopy);
+    // Each column's order statistics selected from its held values, columns side by side on the
+    // driver's cores (each search and its windows belong to one column).
+    java.util.stream.IntStream.range(0, measured.length).parallel()
+        .forEach(j -> searches.get(j).absorb(acc.windows[j]));
     List<SearchPass.Target> targets = new ArrayList<>();
     for (int j = 0; j < measured.length; j++) {
-      searches.get(j).absorb(acc.windows[j]);
       targets.add(new SearchPass.Target(j, validity[j], false, Double.NaN));
     }
     SearchPass.complete(numeric, targets, searches, List.of());
