@@ -302,27 +302,26 @@ public final class CoMoments implements Serializable {
   /**
    * Block entries of column j for rows which[from .. from + m - 1], at {@code pending}: the centred,
    * scaled value, or 0 for an entry in a constant state, whose row is appended to the column's
-   * {@link #constantRows} (without a branch: every row is written, and the count moves only for
-   * a constant).
+   * {@link #constantRows}. Without a branch: every row is written to the list, and the count moves
+   * only for a constant.
    */
   private void centre(int j, double[] x, byte[] st, int[] which, int from, int m) {
     double[] b = block[j];
     double scale = scales[j];
     double shift = centres[j] * scales[j];
     int[] list = constantRows[j];
-    int constants = constantCount[j];
-    int values = 0;
+    int before = constantCount[j];
+    int constants = before;
     for (int t = 0; t < m; t++) {
       int r = which[from + t];
-      boolean value = st[r] == VALUE;
-      b[pending + t] = value ? x[r] * scale - shift : 0.0;
-      values += value ? 1 : 0;
+      int state = st[r];
+      b[pending + t] = masked(x[r] * scale - shift, state);
       list[constants] = r;
-      constants += value ? 0 : 1;
+      constants += -state >>> 31;
     }
     constantCount[j] = constants;
     // Counts are whole numbers far below 2^53: added at once, they come out as one at a time.
-    present[j] += values;
+    present[j] += m - (constants - before);
   }
 
   /**
@@ -388,8 +387,8 @@ public final class CoMoments implements Serializable {
         int r = list[t];
         int state0 = st0[r];
         int state1 = st1[r];
-        double d0 = state0 == VALUE ? x0[r] * scale0 - shift0 : 0.0;
-        double d1 = state1 == VALUE ? x1[r] * scale1 - shift1 : 0.0;
+        double d0 = masked(x0[r] * scale0 - shift0, state0);
+        double d1 = masked(x1[r] * scale1 - shift1, state1);
         a0 += d0;
         a1 += d1;
         b0 += d0 * d0;
@@ -415,7 +414,7 @@ public final class CoMoments implements Serializable {
       for (int t = 0; t < size; t++) {
         int r = list[t];
         int state = st[r];
-        double d = state == VALUE ? x[r] * scale - shift : 0.0;
+        double d = masked(x[r] * scale - shift, state);
         a += d;
         b += d * d;
         counts += 1L << (state << 4);
@@ -424,6 +423,15 @@ public final class CoMoments implements Serializable {
       su2[base + j] = b;
       addStateCounts(s, base + j, counts);
     }
+  }
+
+  /**
+   * d for an entry in state VALUE, else 0.0 (whatever d is, NaN included), without a branch: the
+   * deviation is computed for every entry and its bits masked (states are 0 to 3).
+   */
+  private static double masked(double d, int state) {
+    long keep = (-state >>> 31) - 1L;
+    return Double.longBitsToDouble(Double.doubleToRawLongBits(d) & keep);
   }
 
   /** Adds counts packed by {@link #addState} to cell {@code cell} of state s's counts. */
