@@ -15,12 +15,22 @@ import java.nio.charset.StandardCharsets;
 import java.util.ArrayList;
 import java.util.List;
 import java.util.Map;
+import org.apache.hadoop.conf.Configuration;
 import org.apache.hadoop.fs.FileSystem;
 import org.apache.hadoop.fs.Path;
+import org.apache.parquet.example.data.Group;
+import org.apache.parquet.example.data.simple.SimpleGroupFactory;
+import org.apache.parquet.hadoop.ParquetWriter;
+import org.apache.parquet.hadoop.example.ExampleParquetWriter;
+import org.apache.parquet.hadoop.metadata.CompressionCodecName;
+import org.apache.parquet.hadoop.util.HadoopOutputFile;
+import org.apache.parquet.schema.LogicalTypeAnnotation;
+import org.apache.parquet.schema.MessageType;
+import org.apache.parquet.schema.PrimitiveType.PrimitiveTypeName;
+import org.apache.parquet.schema.Types;
 import org.apache.spark.sql.Dataset;
 import org.apache.spark.sql.Row;
 import org.apache.spark.sql.RowFactory;
-import org.apache.spark.sql.SaveMode;
 import org.apache.spark.sql.SparkSession;
 import org.apache.spark.sql.types.DataType;
 import org.apache.spark.sql.types.DataTypes;
@@ -41,10 +51,80 @@ public final class Outputs {
 
   private Outputs() {}
 
-  /** Writes {@code rows} as a one-file Parquet table at {@code dir} (replacing it). */
+  /**
+   * Writes {@code rows} as a one-file Parquet table at {@code dir} (replacing it), with an empty
+   * {@code _SUCCESS} marker once the file is complete. The tables are a row per column or pair, so
+   * the driver writes them itself with Parquet's own writer rather than through a Spark job (whose
+   * planning and scheduling took longer than the writing). The file carries Spark's schema, so
+   * Spark reads back the same types and nullability as from its own writer.
+   */
   public static void parquet(SparkSession spark, String dir, Map<String, Class<?>> columns,
       List<Map<String, Object>> rows) {
-    dataset(spark, columns, rows).coalesce(1).write().mode(SaveMode.Overwrite).parquet(dir);
+    Configuration conf = spark.sparkContext().hadoopConfiguration();
+    Path path = new Path(dir);
+    try {
+      FileSystem fs = path.getFileSystem(conf);
+      if (fs.exists(path) && !fs.delete(path, true)) {
+        throw new IOException("Cannot replace " + dir);
+      }
+      fs.mkdirs(path);
+      MessageType schema = parquetSchema(columns);
+      SimpleGroupFactory groups = new SimpleGroupFactory(schema);
+      try (ParquetWriter<Group> writer = ExampleParquetWriter
+          .builder(HadoopOutputFile.fromPath(new Path(path, "part-00000.snappy.parquet"), conf))
+          .withConf(conf)
+          .withType(schema)
+          .withCompressionCodec(CompressionCodecName.SNAPPY)
+          .withExtraMetaData(Map.of(SPARK_SCHEMA_KEY, schemaOf(columns).json()))
+          .build()) {
+        for (Map<String, Object> r : rows) {
+          Group g = groups.newGroup();
+          int i = 0;
+          for (Map.Entry<String, Class<?>> c : columns.entrySet()) {
+            Object v = r.get(c.getKey());
+            if (v != null) {
+              append(g, i, c.getValue(), v);
+            }
+            i++;
+          }
+          writer.write(g);
+        }
+      }
+      fs.create(new Path(path, "_SUCCESS"), true).close();
+    } catch (IOException e) {
+      throw new UncheckedIOException("Cannot write " + dir, e);
+    }
+  }
+
+  /** The key under which Spark's own Parquet writer stores a file's Spark schema. */
+  private static final String SPARK_SCHEMA_KEY = "org.apache.spark.sql.parquet.row.metadata";
+
+  static MessageType parquetSchema(Map<String, Class<?>> columns) {
+    Types.MessageTypeBuilder b = Types.buildMessage();
+    columns.forEach((name, type) -> {
+      if (type == Long.class) {
+        b.optional(PrimitiveTypeName.INT64).named(name);
+      } else if (type == Double.class) {
+        b.optional(PrimitiveTypeName.DOUBLE).named(name);
+      } else if (type == Boolean.class) {
+        b.optional(PrimitiveTypeName.BOOLEAN).named(name);
+      } else {
+        b.optional(PrimitiveTypeName.BINARY).as(LogicalTypeAnnotation.stringType()).named(name);
+      }
+    });
+    return b.named("spark_schema");
+  }
+
+  private static void append(Group g, int field, Class<?> type, Object v) {
+    if (type == Long.class) {
+      g.append(g.getType().getFieldName(field), ((Number) v).longValue());
+    } else if (type == Double.class) {
+      g.append(g.getType().getFieldName(field), ((Number) v).doubleValue());
+    } else if (type == Boolean.class) {
+      g.append(g.getType().getFieldName(field), (Boolean) v);
+    } else {
+      g.append(g.getType().getFieldName(field), String.valueOf(v));
+    }
   }
 
   /** {@code rows} as a small DataFrame with the given columns, in their order. */
