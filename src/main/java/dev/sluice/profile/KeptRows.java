@@ -53,9 +53,11 @@ final class KeptRows implements PassOneShare.RowsAside {
     if (count == 0) {
       return empty.emptyCopy();
     }
+    // Merged in a tree only for many partitions, as pass 1's parts are: for a few, a tree's
+    // extra shuffle stage costs more than the merges it spreads.
     return parts.filter(o -> o instanceof EarlyTreatment.Rows)
         .map(o -> ((EarlyTreatment.Rows) o).treated(steps, empty))
-        .treeReduce(CoMoments::merge);
+        .treeReduce(CoMoments::merge, RowScan.depth(parts));
   }
 
   @Override

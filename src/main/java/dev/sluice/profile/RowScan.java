@@ -103,7 +103,8 @@ public final class RowScan {
     return parts.treeReduce((a, b) -> a.merge(b), depth(parts));
   }
 
-  private static int depth(JavaRDD<?> rows) {
+  /** The depth of a tree merge: a tree only from {@link #TREE_FROM} partitions on. */
+  static int depth(JavaRDD<?> rows) {
     return rows.getNumPartitions() > TREE_FROM ? 2 : 1;
   }
 
