@@ -101,8 +101,10 @@ public final class Benchmark {
             spark.read().parquet(table.toString()), numeric, work.resolve("peer").toString())));
       }
       times.get("survey").add(
-          time(table, work.resolve("survey"), () -> sluice("survey", table, work.resolve("survey"))));
-      times.get("run").add(time(table, work.resolve("run"), () -> sluice("run", table, work.resolve("run"))));
+          time(table, work.resolve("survey"),
+              () -> sluice("survey", table, work.resolve("survey"))));
+      times.get("run").add(
+          time(table, work.resolve("run"), () -> sluice("run", table, work.resolve("run"))));
       System.out.println("bench: repetition " + (rep + 1) + " of " + o.reps() + ": " + last(times));
     }
     Map<String, Object> result = summarise(o, times, rankError(spark, input, work.resolve("run")));
@@ -140,7 +142,8 @@ public final class Benchmark {
     tables.keySet().forEach(k -> times.put(k, new ArrayList<>()));
     for (int rep = 0; rep < o.reps(); rep++) {
       tables.forEach((k, t) -> times.get(k).add(
-          time(t, work.resolve("growth-" + k), () -> sluice("run", t, work.resolve("growth-" + k)))));
+          time(t, work.resolve("growth-" + k),
+              () -> sluice("run", t, work.resolve("growth-" + k)))));
       System.out.println("bench: repetition " + (rep + 1) + " of " + o.reps() + ": " + last(times));
     }
     Map<String, Double> medians = medians(times);
@@ -283,9 +286,9 @@ public final class Benchmark {
 
   /**
    * Reads every file under {@code table} once and drops the bytes: every case then starts with
-   * its input in the page cache, as the scan at the start of a repetition finds it. Without this,
-   * the case after the hand-written pipeline (about 100 s spent on its own cached copy) found the
-   * table's pages reclaimed by the kernel, and its first reads went to the disk.
+   * its input in the page cache, as the scan at the start of a repetition finds it, even after
+   * the hand-written pipeline has spent about 100 s on its own cached copy (a kernel that
+   * reclaims cold pages may have dropped the table's by then).
    */
   private static void warm(Path table) {
     java.nio.ByteBuffer buffer = java.nio.ByteBuffer.allocateDirect(1 << 20);

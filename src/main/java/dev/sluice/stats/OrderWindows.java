@@ -142,10 +142,10 @@ public final class OrderWindows implements Serializable {
    * fill {@code grouped[starts[r] .. starts[r + 1] - 1]}. {@code grouped} needs room for n values
    * and {@code starts} for {@link #regions()} + 1 entries.
    *
-   * <p>A value's region is found without branches (the number of windows that start at or below its
-   * key plus the number that end below it), and the values are then moved by a counting sort: a
-   * loop with no branch the data decides, where {@link #add}'s tests are hard to predict for values
-   * that fall on both sides of a window at random.
+   * <p>Most values find their region in a table ({@link RegionLookup}), the rest by comparing keys,
+   * and the values are then moved by a counting sort: loops with almost no branch the data decides,
+   * where {@link #add}'s tests are hard to predict for values that fall on both sides of a window at
+   * random.
    */
   public void addAll(double[] x, int n, double[] grouped, int[] starts) {
     int regions = counts.length;
@@ -183,10 +183,12 @@ public final class OrderWindows implements Serializable {
    * The region of a value from one table lookup, for most values. A value's region is the number
    * of thresholds at or below it: per window, its first value and the value just above its last
    * key. The table splits the thresholds' span into equal slots by {@code slot(x)}, which is
-   * monotone in x (a difference, a product, a sum, a truncation to long and clamps, each monotone). A
-   * threshold below x's slot is therefore below x and one above x's slot is above x, so a slot that
-   * holds no threshold has one region for all its values, exactly. Values in a slot that holds a
-   * threshold (a few in a thousand) get -1 and are placed by comparing keys.
+   * monotone in x (a difference, a product, a sum, a truncation to long and clamps, each
+   * monotone): a threshold below x's slot is therefore below x and one above x's slot is above x,
+   * so a slot that holds no threshold has one region for all its values, exactly. Values in a
+   * slot that holds a threshold (at most two slots per window, of about a thousand) get -1 and are
+   * placed by comparing keys. Windows that reach an infinity or beyond get no table: every value
+   * then compares keys.
    */
   private static final class RegionLookup {
     private static final double SLOTS = 1000.0;

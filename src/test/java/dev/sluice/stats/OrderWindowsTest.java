@@ -108,18 +108,26 @@ class OrderWindowsTest {
         }
         assertThat(starts[regions]).isEqualTo(batch);
       }
-      for (int r = 0; r < regions; r++) {
-        assertThat(all.regionCount(r)).isEqualTo(one.regionCount(r));
-      }
-      for (int w = 0; w < layout.windows(); w++) {
-        assertThat(all.resolved(w)).isEqualTo(one.resolved(w));
-        assertThat(all.histogram(w)).isEqualTo(one.histogram(w));
-        double[] heldAll = all.heldValues(w);
-        double[] heldOne = one.heldValues(w);
-        Arrays.sort(heldAll);
-        Arrays.sort(heldOne);
-        assertThat(heldAll).containsExactly(heldOne);
-      }
+      assertSameFigures(all, one);
+    }
+  }
+
+  /**
+   * Same counts per region, same overflow, histograms and held values (as multisets) per window.
+   * In a merge the total is the same either way, so a window overflows in both or in neither.
+   */
+  private static void assertSameFigures(OrderWindows got, OrderWindows want) {
+    for (int r = 0; r < want.regions(); r++) {
+      assertThat(got.regionCount(r)).isEqualTo(want.regionCount(r));
+    }
+    for (int w = 0; w < want.windows(); w++) {
+      assertThat(got.resolved(w)).isEqualTo(want.resolved(w));
+      assertThat(got.histogram(w)).isEqualTo(want.histogram(w));
+      double[] a = got.heldValues(w);
+      double[] b = want.heldValues(w);
+      Arrays.sort(a);
+      Arrays.sort(b);
+      assertThat(a).containsExactly(b);
     }
   }
 
@@ -134,20 +142,7 @@ class OrderWindowsTest {
         whole.add(x[i]);
         parts[i % 3].add(x[i]);
       }
-      OrderWindows merged = parts[0].merge(parts[1]).merge(parts[2]);
-      for (int r = 0; r < layout.regions(); r++) {
-        assertThat(merged.regionCount(r)).isEqualTo(whole.regionCount(r));
-      }
-      for (int w = 0; w < layout.windows(); w++) {
-        // The same total either way, so a window overflows in both or in neither.
-        assertThat(merged.resolved(w)).isEqualTo(whole.resolved(w));
-        assertThat(merged.histogram(w)).isEqualTo(whole.histogram(w));
-        double[] a = merged.heldValues(w);
-        double[] b = whole.heldValues(w);
-        Arrays.sort(a);
-        Arrays.sort(b);
-        assertThat(a).containsExactly(b);
-      }
+      assertSameFigures(parts[0].merge(parts[1]).merge(parts[2]), whole);
     }
   }
 
