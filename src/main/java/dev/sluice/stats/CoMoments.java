@@ -82,6 +82,7 @@ public final class CoMoments implements Serializable {
    * Flushed before the sums are read, merged or serialized.
    */
   private transient double[][] block;
+  /** One row's deviations on the row path ({@link #add(double[], byte[])}), for its constants. */
   private transient double[] u;
   private transient byte[] missingStates;
   /**
@@ -229,6 +230,8 @@ public final class CoMoments implements Serializable {
     }
     if (block == null) {
       block = new double[p][BLOCK];
+    }
+    if (u == null) {
       u = new double[p];
     }
     int constants = 0;
@@ -274,7 +277,6 @@ public final class CoMoments implements Serializable {
     }
     if (block == null) {
       block = new double[p][BLOCK];
-      u = new double[p];
     }
     if (constantRows == null || constantRows[0].length < count) {
       int size = Math.max(count, 4096);
