@@ -350,8 +350,8 @@ public final class Job {
   }
 
   /**
-   * The summary and correlation tables and plan.json. The two Parquet tables are one small Spark
-   * job each, submitted side by side: on an idle cluster each leaves all but one core free.
+   * The summary and correlation tables and plan.json, written by the driver (see {@link
+   * Outputs#parquet}); the correlation table on a thread of its own, beside the rest.
    */
   private void writeTables(Sluice.Fit fit, OutputLayout out) {
     List<Map<String, Object>> pairs = CorrelationTable.rows(fit.plan().collinearity());
