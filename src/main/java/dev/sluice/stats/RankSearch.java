@@ -46,8 +46,13 @@ public final class RankSearch {
   private final List<long[]> pending = new ArrayList<>();
   private final List<Boolean> pendingTooMany = new ArrayList<>();
   private int passes;
-  /** The last pass absorbed: later questions about ranks are read off its counts. */
-  private OrderWindows lastPass;
+  /**
+   * Every pass absorbed, in order: a later question about ranks is read off the last pass whose
+   * windows can answer it. Each pass counts the same values, so any that can answer gives the same
+   * exact answer; a quartile found by pass 1 is no longer inside the windows of a pass that
+   * searched only for another one.
+   */
+  private final List<OrderWindows> absorbed = new ArrayList<>();
 
   /**
    * @param probabilities the quantiles wanted, each in [0, 1]
@@ -223,7 +228,7 @@ public final class RankSearch {
    */
   public boolean absorb(OrderWindows pass) {
     passes++;
-    lastPass = pass;
+    absorbed.add(pass);
     long n = pass.total();
     if (count < 0) {
       count = n;
@@ -329,11 +334,18 @@ public final class RankSearch {
   }
 
   /**
-   * The order statistic of any rank (1-based) among the values, when the last pass's counts place
-   * it inside a window whose values were kept or which holds a single value; empty otherwise.
+   * The order statistic of any rank (1-based) among the values, when a pass's counts place it
+   * inside a window whose values were kept or which holds a single value (the last such pass is
+   * asked first); empty otherwise.
    */
   public java.util.OptionalDouble orderStatistic(long rank) {
-    return lastPass == null ? java.util.OptionalDouble.empty() : lastPass.orderStatistic(rank);
+    for (int i = absorbed.size() - 1; i >= 0; i--) {
+      java.util.OptionalDouble v = absorbed.get(i).orderStatistic(rank);
+      if (v.isPresent()) {
+        return v;
+      }
+    }
+    return java.util.OptionalDouble.empty();
   }
 
   /** Passes absorbed so far. */
@@ -342,11 +354,17 @@ public final class RankSearch {
   }
 
   /**
-   * How many of the values are below {@code f}, exactly, from the last pass's windows; -1 when
-   * they cannot tell (f lies between windows, or the search did not run).
+   * How many of the values are below {@code f}, exactly, from the windows of the last pass that
+   * can tell; -1 when none can (f lies between every pass's windows, or the search did not run).
    */
   public long countBelow(double f) {
-    return lastPass == null ? -1 : lastPass.countBelow(f, false);
+    for (int i = absorbed.size() - 1; i >= 0; i--) {
+      long below = absorbed.get(i).countBelow(f, false);
+      if (below >= 0) {
+        return below;
+      }
+    }
+    return -1;
   }
 
   /** Values counted by the first pass. */
