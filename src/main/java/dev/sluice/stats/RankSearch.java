@@ -358,8 +358,25 @@ public final class RankSearch {
    * can tell; -1 when none can (f lies between every pass's windows, or the search did not run).
    */
   public long countBelow(double f) {
+    long below = told(f, false);
+    if (below >= 0 || found == null) {
+      return below;
+    }
+    // f strictly between two consecutive order statistics found here (a type 7 quantile between
+    // them): no value lies between them, so the values below f are those at or below the lower one,
+    // which the pass that found it can count.
+    for (int i = 0; i + 1 < ranks.length; i++) {
+      if (ranks[i + 1] == ranks[i] + 1 && found[i] < f && f < found[i + 1]) {
+        return told(found[i], true);
+      }
+    }
+    return -1;
+  }
+
+  /** The values below f (orEqual: at or below), from the last pass that can tell; -1: none. */
+  private long told(double f, boolean orEqual) {
     for (int i = absorbed.size() - 1; i >= 0; i--) {
-      long below = absorbed.get(i).countBelow(f, false);
+      long below = absorbed.get(i).countBelow(f, orEqual);
       if (below >= 0) {
         return below;
       }

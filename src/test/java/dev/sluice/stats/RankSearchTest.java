@@ -139,6 +139,40 @@ class RankSearchTest {
   }
 
   @Test
+  void aQuartileBetweenTheWindowsOfEveryPassStillHasItsCountBelow() {
+    // Values rounded to 0.1 with many ties, 250 held values per window: Q1 and Q3 (type 7, each
+    // between two order statistics) lie in gaps between the windows of every pass. No value lies
+    // strictly between two consecutive order statistics, so the values below the quartile are
+    // those at or below the lower one. Reference: the values below each quartile, counted directly
+    // in the data; Commons Math R_7 for the quartiles.
+    java.util.Random rnd = new java.util.Random(7);
+    double[] data = new double[20_000 + rnd.nextInt(20_000)];
+    for (int i = 0; i < data.length; i++) {
+      data[i] = Math.round(Math.exp(rnd.nextGaussian()) * 3000) / 10.0;
+    }
+    RankSearch s = new RankSearch(QUARTILES, 250);
+    OrderWindows plan = s.firstPlan(RankSearch.sorted(Arrays.copyOf(data, 1_000)), data.length);
+    List<OrderWindows> passes = new java.util.ArrayList<>();
+    while (true) {
+      OrderWindows pass = plan.emptyCopy();
+      for (double x : data) {
+        pass.add(x);
+      }
+      passes.add(pass);
+      if (s.absorb(pass)) {
+        break;
+      }
+      plan = s.nextPlan();
+    }
+    double[] q = s.quantiles();
+    assertType7(q, data, QUARTILES);
+    assertThat(passes).allMatch(p -> p.countBelow(q[0], false) < 0 && p.countBelow(q[2], false) < 0);
+    for (double x : q) {
+      assertThat(s.countBelow(x)).as("below %s", x).isEqualTo(Arrays.stream(data).filter(v -> v < x).count());
+    }
+  }
+
+  @Test
   void heavyTiesAndATinyMemoryStillEndExactly() {
     // 60 % of the values are one number and memory holds 50 values per window: the search must
     // narrow by histograms down to single keys. Reference: Commons Math R_7.
