@@ -4,6 +4,7 @@ import java.io.IOException;
 import java.io.UncheckedIOException;
 import java.util.ArrayList;
 import java.util.List;
+import java.util.Optional;
 import java.util.OptionalLong;
 import java.util.concurrent.ExecutionException;
 import java.util.concurrent.ExecutorService;
@@ -14,6 +15,8 @@ import org.apache.hadoop.fs.FileSystem;
 import org.apache.hadoop.fs.FileStatus;
 import org.apache.hadoop.fs.Path;
 import org.apache.parquet.hadoop.ParquetFileReader;
+import org.apache.parquet.hadoop.metadata.BlockMetaData;
+import org.apache.parquet.hadoop.metadata.ParquetMetadata;
 import org.apache.parquet.hadoop.util.HadoopInputFile;
 import org.apache.spark.sql.Dataset;
 import org.apache.spark.sql.Row;
@@ -45,44 +48,73 @@ public final class ParquetFooters {
   private ParquetFooters() {}
 
   /**
-   * The rows Spark will read from {@code data}, from its files' footers, when {@code data} is a
-   * plain read of Parquet files (columns selected, nothing filtered, joined or limited) of at most
-   * {@link #MOST_FILES} files, and Spark is not set to skip corrupt or missing files; otherwise, or
-   * when a footer cannot be read, empty, and the caller counts with Spark.
+   * A plain Parquet read's files (sorted by path) and their footers.
+   *
+   * @param hadoop the Hadoop configuration Spark reads the files with
+   * @param asStored whether the read's columns are the files' own, not renamed or computed
+   */
+  public record Files(List<Path> paths, List<ParquetMetadata> footers, Configuration hadoop,
+      boolean asStored) {
+    /** The rows in all the files. */
+    public long rows() {
+      return footers.stream().mapToLong(ParquetFooters::rowsOf).sum();
+    }
+  }
+
+  /**
+   * The rows Spark will read from {@code data}, from its files' footers (see {@link #read});
+   * otherwise, or when a footer cannot be read, empty, and the caller counts with Spark.
    */
   public static OptionalLong rowsRead(Dataset<Row> data) {
+    Optional<Files> files = read(data);
+    return files.isPresent() ? OptionalLong.of(files.get().rows()) : OptionalLong.empty();
+  }
+
+  /**
+   * The files and footers of {@code data} when it is a plain read of Parquet files (columns
+   * selected, nothing filtered, joined or limited) of at most {@link #MOST_FILES} files, and Spark
+   * is not set to skip corrupt or missing files; otherwise, or when a footer cannot be read, empty.
+   */
+  public static Optional<Files> read(Dataset<Row> data) {
     LogicalPlan plan = data.queryExecution().optimizedPlan();
+    boolean asStored = true;
     while (plan instanceof Project p) {
+      asStored &= scala.jdk.javaapi.CollectionConverters.asJava(p.projectList()).stream()
+          .allMatch(e -> e instanceof org.apache.spark.sql.catalyst.expressions.AttributeReference);
       plan = p.child();
     }
     if (!(plan instanceof LogicalRelation r) || !(r.relation() instanceof HadoopFsRelation fs)
         || !(fs.fileFormat() instanceof ParquetFileFormat)) {
-      return OptionalLong.empty();
+      return Optional.empty();
     }
     var conf = data.sparkSession().sessionState().conf();
     boolean skips = scala.jdk.javaapi.CollectionConverters.asJava(fs.options()).keySet().stream()
         .anyMatch(k -> k.equalsIgnoreCase("ignoreCorruptFiles") || k.equalsIgnoreCase("ignoreMissingFiles"));
     if (skips || conf.ignoreCorruptFiles() || conf.ignoreMissingFiles()) {
-      return OptionalLong.empty();
+      return Optional.empty();
     }
-    String[] files = data.inputFiles();
-    if (files.length > MOST_FILES) {
-      return OptionalLong.empty();
+    String[] names = data.inputFiles();
+    if (names.length > MOST_FILES) {
+      return Optional.empty();
     }
     Configuration hadoop = data.sparkSession().sessionState().newHadoopConfWithOptions(fs.options());
-    List<Footer> footers = new ArrayList<>();
     try {
-      for (String f : files) {
-        Path path = new Path(new java.net.URI(f));
+      List<Path> paths = new ArrayList<>();
+      for (String f : names) {
+        paths.add(new Path(new java.net.URI(f)));
+      }
+      paths.sort(null);
+      List<Footer> footers = new ArrayList<>();
+      for (Path path : paths) {
         footers.add(() -> HadoopInputFile.fromPath(path, hadoop));
       }
-      long rows = sum(footers);
-      LOG.info("Counted {} rows from the footers of {} Parquet file(s)", rows, files.length);
-      return OptionalLong.of(rows);
+      Files files = new Files(List.copyOf(paths), readEach(footers, m -> m), hadoop, asStored);
+      LOG.info("Counted {} rows from the footers of {} Parquet file(s)", files.rows(), paths.size());
+      return Optional.of(files);
     } catch (RuntimeException | java.net.URISyntaxException e) {
       // Only a shortcut: Spark counts the rows instead, and reports a file it cannot read itself.
       LOG.info("Cannot count the rows from the Parquet footers ({}); Spark counts them", e.getMessage());
-      return OptionalLong.empty();
+      return Optional.empty();
     }
   }
 
@@ -101,7 +133,8 @@ public final class ParquetFooters {
       for (FileStatus f : files) {
         footers.add(() -> HadoopInputFile.fromStatus(f, conf));
       }
-      return sum(footers);
+      // Each footer counted as it is read: a written table may have many more files than a read.
+      return readEach(footers, ParquetFooters::rowsOf).stream().mapToLong(Long::longValue).sum();
     } catch (IOException e) {
       throw new UncheckedIOException("Cannot list the Parquet files under " + dir, e);
     }
@@ -131,10 +164,10 @@ public final class ParquetFooters {
     HadoopInputFile open() throws IOException;
   }
 
-  /** The rows of {@code files}, their footers read side by side. */
-  private static long sum(List<Footer> files) {
+  /** {@code what} of each footer of {@code files}, in their order, the footers read side by side. */
+  private static <T> List<T> readEach(List<Footer> files, java.util.function.Function<ParquetMetadata, T> what) {
     if (files.size() <= 1) {
-      return files.stream().mapToLong(ParquetFooters::rowsOf).sum();
+      return files.stream().map(f -> what.apply(footerOf(f))).toList();
     }
     ExecutorService pool = Executors.newFixedThreadPool(Math.min(READERS, files.size()), r -> {
       Thread t = new Thread(r, "sluice-footers");
@@ -142,15 +175,15 @@ public final class ParquetFooters {
       return t;
     });
     try {
-      List<Future<Long>> counts = new ArrayList<>();
+      List<Future<T>> read = new ArrayList<>();
       for (Footer f : files) {
-        counts.add(pool.submit(() -> rowsOf(f)));
+        read.add(pool.submit(() -> what.apply(footerOf(f))));
       }
-      long rows = 0;
-      for (Future<Long> c : counts) {
-        rows += c.get();
+      List<T> out = new ArrayList<>();
+      for (Future<T> f : read) {
+        out.add(f.get());
       }
-      return rows;
+      return out;
     } catch (ExecutionException e) {
       if (e.getCause() instanceof UncheckedIOException u) {
         throw u;
@@ -164,12 +197,16 @@ public final class ParquetFooters {
     }
   }
 
-  private static long rowsOf(Footer f) {
+  private static long rowsOf(ParquetMetadata footer) {
+    return footer.getBlocks().stream().mapToLong(BlockMetaData::getRowCount).sum();
+  }
+
+  private static ParquetMetadata footerOf(Footer f) {
     HadoopInputFile file = null;
     try {
       file = f.open();
       try (ParquetFileReader r = ParquetFileReader.open(file)) {
-        return r.getRecordCount();
+        return r.getFooter();
       }
     } catch (IOException e) {
       String which = file == null ? "a file" : file.getPath().toString();

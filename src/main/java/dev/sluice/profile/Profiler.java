@@ -6,6 +6,7 @@ import dev.sluice.config.OutlierMethod;
 import dev.sluice.config.Role;
 import dev.sluice.config.Settings;
 import dev.sluice.io.ParquetFooters;
+import dev.sluice.io.ParquetPilot;
 import dev.sluice.stats.NumericSteps;
 import dev.sluice.stats.OrderWindows;
 import dev.sluice.stats.RankSearch;
@@ -28,6 +29,7 @@ import org.apache.spark.sql.Column;
 import org.apache.spark.sql.functions;
 import org.apache.spark.sql.SparkSession;
 import org.apache.spark.sql.catalyst.InternalRow;
+import org.apache.spark.sql.types.DataType;
 import org.apache.spark.sql.vectorized.ColumnarBatch;
 
 /**
@@ -35,11 +37,12 @@ import org.apache.spark.sql.vectorized.ColumnarBatch;
  * distinct counts and ranges, and the row sample for rank correlations.
  *
  * <p>Quartiles are exact type 7 whatever the table's size ({@link RankSearch}). A row count runs
- * first (from the files' footers for a plain Parquet read, {@link ParquetFooters#rowsRead}, else
+ * first (from the files' footers for a plain Parquet read, {@link ParquetFooters#read}, else
  * Spark's count); on a table too large to hold a column in memory, a pilot sample of the first
- * rows of a few spread partitions ({@link #pilotPartitions}) places the windows whose values the
- * pass keeps. A pilot that placed them badly costs an extra
- * pass, never accuracy. Columns using the MAD method cost one more pass, shared by all of them,
+ * rows of a few spread partitions ({@link #pilotPartitions}; of as many row groups, read by the
+ * driver from their first pages, for a plain Parquet read: {@link ParquetPilot}) places the
+ * windows whose values the pass keeps. A pilot that placed them badly costs an extra pass, never
+ * accuracy. Columns using the MAD method cost one more pass, shared by all of them,
  * because the MAD is a median of distances from the median.
  */
 public final class Profiler {
@@ -61,7 +64,8 @@ public final class Profiler {
   static TableProfile profile(Dataset<Row> data, Settings settings, Map<String, Role> roles,
       boolean columnar) {
     // A plain Parquet read is counted from its footers: no Spark job.
-    long rows = ParquetFooters.rowsRead(data).orElseGet(data::count);
+    Optional<ParquetFooters.Files> files = ParquetFooters.read(data);
+    long rows = files.isPresent() ? files.get().rows() : data.count();
     ProfileLayout layout = ProfileLayout.of(data.schema(), roles);
     List<String> grouped = groupCandidates(layout, settings);
     List<String> groupedText = groupTextCandidates(layout, settings);
@@ -72,8 +76,7 @@ public final class Profiler {
     JavaRDD<InternalRow> numeric = RowScan.rows(data, layout.pilotProjection());
     int perWindow = settings.quantiles().heldPerWindow(QUARTILES.length * measured.length);
     RowScan.Pilot taken = rows > perWindow && measured.length > 0
-        ? RowScan.pilot(numeric, measured.length, layout.keyAt >= 0 ? measured.length : -1,
-            pilotRows(settings, measured.length), pilotPartitions(data, layout.keyAt >= 0))
+        ? pilot(data, files, numeric, layout, measured, settings)
         : new RowScan.Pilot(new double[measured.length][0], new long[0]);
     double[][] pilot = taken.values();
     NumericSteps[] validity = new NumericSteps[measured.length];
@@ -357,6 +360,30 @@ public final class Profiler {
   static int pilotPartitions(Dataset<Row> data, boolean grouped) {
     int wave = data.sparkSession().sparkContext().defaultParallelism();
     return grouped ? PILOT_PARTITIONS : Math.max(2, Math.min(PILOT_PARTITIONS, wave));
+  }
+
+  /**
+   * The pilot rows: read by the driver from the first pages of a few row groups of a plain
+   * Parquet read's files ({@link ParquetPilot}) where it can, else by a Spark job over the first
+   * rows of a few partitions ({@link RowScan#pilot}), which also reads the group keys.
+   */
+  private static RowScan.Pilot pilot(Dataset<Row> data, Optional<ParquetFooters.Files> files,
+      JavaRDD<InternalRow> numeric, ProfileLayout layout, int[] measured, Settings settings) {
+    int wanted = pilotRows(settings, measured.length);
+    int parts = pilotPartitions(data, layout.keyAt >= 0);
+    if (layout.keyAt < 0 && files.isPresent() && files.get().asStored()) {
+      List<String> names = new ArrayList<>();
+      List<DataType> types = new ArrayList<>();
+      for (int i : measured) {
+        names.add(layout.names[i]);
+        types.add(layout.rawTypes[i]);
+      }
+      Optional<double[][]> read = ParquetPilot.read(files.get(), names, types, wanted, parts);
+      if (read.isPresent()) {
+        return new RowScan.Pilot(read.get(), new long[0]);
+      }
+    }
+    return RowScan.pilot(numeric, measured.length, layout.keyAt >= 0 ? measured.length : -1, wanted, parts);
   }
 
   /** The number of distinct values in a sorted array (-0.0 and 0.0 as one). */

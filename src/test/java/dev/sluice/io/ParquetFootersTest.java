@@ -53,6 +53,9 @@ class ParquetFootersTest {
     // Reference: Spark's own count of the same read.
     assertThat(ParquetFooters.rowsRead(data)).hasValue(data.count());
     assertThat(ParquetFooters.rowsRead(data.select("`a.b c`", "part"))).hasValue(2345);
+    // The pilot reads the files' columns only where the read's columns are theirs, by name.
+    assertThat(ParquetFooters.read(data.select("`a.b c`", "part")).orElseThrow().asStored()).isTrue();
+    assertThat(ParquetFooters.read(data.select(data.col("id").as("`a.b c`"))).orElseThrow().asStored()).isFalse();
   }
 
   @Test
