@@ -28,18 +28,20 @@ import org.apache.spark.sql.SparkSession;
  * every column, a plain Parquet copy, the hand-written MLlib pipeline, {@code survey} and {@code
  * run}. Prints the median of each and the ratios, plus the largest rank error of the fence
  * quartiles against the data's exact ranks (Sluice's quartiles are exact: at most 1 / n), and
- * writes them as JSON.
+ * writes them as JSON. The first W repetitions (--warmup, default 1; 0 with --quick) warm the
+ * JVM: they run every case as the others do, are printed and written, but are left out of the
+ * medians.
  *
  * <pre>
- * Benchmark [--rows N] [--columns P] [--reps R] [--data DIR] [--out FILE] [--skip-peer]
- *           [--quick | --growth [--wide-columns W]]
+ * Benchmark [--rows N] [--columns P] [--reps R] [--warmup W] [--data DIR] [--out FILE]
+ *           [--skip-peer] [--quick | --growth [--wide-columns W]]
  * </pre>
  */
 public final class Benchmark {
   private Benchmark() {}
 
-  record Options(long rows, int columns, int reps, Path data, Path out, boolean quick, boolean growth,
-      boolean skipPeer, int wideColumns) {
+  record Options(long rows, int columns, int reps, int warmup, Path data, Path out, boolean quick,
+      boolean growth, boolean skipPeer, int wideColumns) {
     static Options parse(String[] args) {
       Map<String, String> m = new LinkedHashMap<>();
       boolean quick = false;
@@ -62,10 +64,14 @@ public final class Benchmark {
       long rows = Long.parseLong(m.getOrDefault("--rows", defaultRows));
       int cols = Integer.parseInt(m.getOrDefault("--columns", "10"));
       int reps = Integer.parseInt(m.getOrDefault("--reps", quick ? "1" : "3"));
+      int warmup = Integer.parseInt(m.getOrDefault("--warmup", quick ? "0" : "1"));
+      if (reps < 1 || warmup < 0) {
+        throw new IllegalArgumentException("--reps must be at least 1 and --warmup at least 0");
+      }
       Path data = Path.of(m.getOrDefault("--data", "target/bench-data"));
       Path out = Path.of(m.getOrDefault("--out", "target/bench/results.json"));
       int wide = Integer.parseInt(m.getOrDefault("--wide-columns", "200"));
-      return new Options(rows, cols, reps, data, out, quick, growth, skipPeer, wide);
+      return new Options(rows, cols, reps, warmup, data, out, quick, growth, skipPeer, wide);
     }
   }
 
@@ -92,7 +98,7 @@ public final class Benchmark {
     }
     Dataset<Row> input = spark.read().parquet(table.toString());
     List<String> numeric = numericColumns(input);
-    for (int rep = 0; rep < o.reps(); rep++) {
+    for (int rep = 0; rep < o.warmup() + o.reps(); rep++) {
       times.get("scan").add(time(table, null, () -> scan(input, numeric)));
       times.get("copy").add(time(table, work.resolve("copy"),
           () -> input.write().mode(SaveMode.Overwrite).parquet(work.resolve("copy").toString())));
@@ -105,7 +111,7 @@ public final class Benchmark {
               () -> sluice("survey", table, work.resolve("survey"))));
       times.get("run").add(
           time(table, work.resolve("run"), () -> sluice("run", table, work.resolve("run"))));
-      System.out.println("bench: repetition " + (rep + 1) + " of " + o.reps() + ": " + last(times));
+      System.out.println("bench: " + label(o, rep) + ": " + last(times));
     }
     Map<String, Object> result = summarise(o, times, rankError(spark, input, work.resolve("run")));
     Files.createDirectories(o.out().getParent());
@@ -140,13 +146,13 @@ public final class Benchmark {
     Path work = o.out().getParent().resolve("work");
     Map<String, List<Double>> times = new LinkedHashMap<>();
     tables.keySet().forEach(k -> times.put(k, new ArrayList<>()));
-    for (int rep = 0; rep < o.reps(); rep++) {
+    for (int rep = 0; rep < o.warmup() + o.reps(); rep++) {
       tables.forEach((k, t) -> times.get(k).add(
           time(t, work.resolve("growth-" + k),
               () -> sluice("run", t, work.resolve("growth-" + k)))));
-      System.out.println("bench: repetition " + (rep + 1) + " of " + o.reps() + ": " + last(times));
+      System.out.println("bench: " + label(o, rep) + ": " + last(times));
     }
-    Map<String, Double> medians = medians(times);
+    Map<String, Double> medians = medians(measured(times, o.warmup()));
     Map<String, Object> r = header(o, medians);
     Map<String, Double> ratios = new LinkedHashMap<>();
     ratios.put("rows_x4_over_base", medians.get("rows_x4") / medians.get("base"));
@@ -217,7 +223,7 @@ public final class Benchmark {
 
   private static Map<String, Object> summarise(
       Options o, Map<String, List<Double>> times, double rankError) {
-    Map<String, Double> medians = medians(times);
+    Map<String, Double> medians = medians(measured(times, o.warmup()));
     Map<String, Object> r = header(o, medians);
     Map<String, Double> ratios = new LinkedHashMap<>();
     ratios.put("run_over_copy", medians.get("run") / medians.get("copy"));
@@ -237,10 +243,25 @@ public final class Benchmark {
     r.put("rows", o.rows());
     r.put("numeric_columns", o.columns());
     r.put("repetitions", o.reps());
+    // The first this many of each case's "seconds" warmed the JVM and are not in the medians.
+    r.put("warmup_repetitions", o.warmup());
     r.put("cores", Runtime.getRuntime().availableProcessors());
     r.put("max_heap_mb", Runtime.getRuntime().maxMemory() / (1024 * 1024));
     r.put("median_seconds", medians);
     return r;
+  }
+
+  /** "warm-up 1 of 1" or "repetition 2 of 3" for the repetition at index {@code rep}. */
+  private static String label(Options o, int rep) {
+    return rep < o.warmup() ? "warm-up " + (rep + 1) + " of " + o.warmup()
+        : "repetition " + (rep - o.warmup() + 1) + " of " + o.reps();
+  }
+
+  /** Each case's times after the first {@code warmup}. */
+  private static Map<String, List<Double>> measured(Map<String, List<Double>> times, int warmup) {
+    Map<String, List<Double>> out = new LinkedHashMap<>();
+    times.forEach((k, v) -> out.put(k, v.subList(warmup, v.size())));
+    return out;
   }
 
   private static Map<String, Double> medians(Map<String, List<Double>> times) {

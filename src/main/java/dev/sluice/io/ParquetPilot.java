@@ -82,7 +82,7 @@ public final class ParquetPilot {
         }
       }
     }
-    if (groups.isEmpty() || columns.isEmpty() || wanted <= 0) {
+    if (groups.isEmpty() || columns.isEmpty() || wanted <= 0 || spread <= 0) {
       return Optional.empty();
     }
     int k = Math.min(spread, groups.size());

@@ -371,7 +371,9 @@ public final class Profiler {
       JavaRDD<InternalRow> numeric, ProfileLayout layout, int[] measured, Settings settings) {
     int wanted = pilotRows(settings, measured.length);
     int parts = pilotPartitions(data, layout.keyAt >= 0);
-    if (layout.keyAt < 0 && files.isPresent() && files.get().asStored()) {
+    // With field IDs, Spark matches a file's columns by ID, not by the names read here.
+    boolean byName = !data.sparkSession().sessionState().conf().parquetFieldIdReadEnabled();
+    if (layout.keyAt < 0 && byName && files.isPresent() && files.get().asStored()) {
       List<String> names = new ArrayList<>();
       List<DataType> types = new ArrayList<>();
       for (int i : measured) {
