@@ -355,7 +355,9 @@ public final class RankSearch {
 
   /**
    * How many of the values are below {@code f}, exactly, from the windows of the last pass that
-   * can tell; -1 when none can (f lies between every pass's windows, or the search did not run).
+   * can tell, or, for f strictly between two consecutive order statistics found here, the values at
+   * or below the lower one; -1 when neither can (f lies between every pass's windows, or the search
+   * did not run).
    */
   public long countBelow(double f) {
     long below = told(f, false);
