@@ -6,10 +6,6 @@ import java.util.ArrayList;
 import java.util.List;
 import java.util.Optional;
 import java.util.OptionalLong;
-import java.util.concurrent.ExecutionException;
-import java.util.concurrent.ExecutorService;
-import java.util.concurrent.Executors;
-import java.util.concurrent.Future;
 import org.apache.hadoop.conf.Configuration;
 import org.apache.hadoop.fs.FileSystem;
 import org.apache.hadoop.fs.FileStatus;
@@ -166,35 +162,8 @@ public final class ParquetFooters {
 
   /** {@code what} of each footer of {@code files}, in their order, the footers read side by side. */
   private static <T> List<T> readEach(List<Footer> files, java.util.function.Function<ParquetMetadata, T> what) {
-    if (files.size() <= 1) {
-      return files.stream().map(f -> what.apply(footerOf(f))).toList();
-    }
-    ExecutorService pool = Executors.newFixedThreadPool(Math.min(READERS, files.size()), r -> {
-      Thread t = new Thread(r, "sluice-footers");
-      t.setDaemon(true);
-      return t;
-    });
-    try {
-      List<Future<T>> read = new ArrayList<>();
-      for (Footer f : files) {
-        read.add(pool.submit(() -> what.apply(footerOf(f))));
-      }
-      List<T> out = new ArrayList<>();
-      for (Future<T> f : read) {
-        out.add(f.get());
-      }
-      return out;
-    } catch (ExecutionException e) {
-      if (e.getCause() instanceof UncheckedIOException u) {
-        throw u;
-      }
-      throw new IllegalStateException("Cannot read a Parquet footer", e.getCause());
-    } catch (InterruptedException e) {
-      Thread.currentThread().interrupt();
-      throw new IllegalStateException("Interrupted while reading Parquet footers", e);
-    } finally {
-      pool.shutdownNow();
-    }
+    return SideBySide.map(files, READERS, "sluice-footers", "Cannot read a Parquet footer",
+        f -> what.apply(footerOf(f)));
   }
 
   private static long rowsOf(ParquetMetadata footer) {

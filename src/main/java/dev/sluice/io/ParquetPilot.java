@@ -5,10 +5,6 @@ import java.io.UncheckedIOException;
 import java.util.ArrayList;
 import java.util.List;
 import java.util.Optional;
-import java.util.concurrent.ExecutionException;
-import java.util.concurrent.ExecutorService;
-import java.util.concurrent.Executors;
-import java.util.concurrent.Future;
 import org.apache.hadoop.fs.Path;
 import org.apache.parquet.HadoopReadOptions;
 import org.apache.parquet.ParquetReadOptions;
@@ -58,8 +54,8 @@ public final class ParquetPilot {
 
   private ParquetPilot() {}
 
-  /** One row group's first {@code rows} rows to read. */
-  private record Part(int file, int group, int rows, long groupRows) {}
+  /** One row group's first {@code rows} rows to read, with the columns' schema in its file. */
+  private record Part(int file, int group, int rows, long groupRows, MessageType schema) {}
 
   /**
    * The first rows of {@code spread} row groups spread evenly over {@code files} (by path, then
@@ -77,7 +73,7 @@ public final class ParquetPilot {
       for (int b = 0; b < blocks.size(); b++) {
         long n = blocks.get(b).getRowCount();
         if (n > 0) {
-          groups.add(new Part(f, b, 0, n));
+          groups.add(new Part(f, b, 0, n, null));
           total += n;
         }
       }
@@ -91,21 +87,21 @@ public final class ParquetPilot {
     long taken = 0;
     for (int i = 0; i < k; i++) {
       Part g = groups.get(k == 1 ? 0 : (int) Math.round((double) i * (groups.size() - 1) / (k - 1)));
+      Optional<MessageType> schema = projection(files.footers().get(g.file()), columns, types);
+      if (schema.isEmpty()) {
+        return Optional.empty();
+      }
       int rows = (int) Math.min(each, g.groupRows());
-      parts.add(new Part(g.file(), g.group(), rows, g.groupRows()));
+      parts.add(new Part(g.file(), g.group(), rows, g.groupRows(), schema.get()));
       taken += rows;
     }
     if (taken < Math.min(wanted, total)) {
       // Small row groups: Spark's pilot reads on through a partition's files instead.
       return Optional.empty();
     }
-    for (Part p : parts) {
-      if (projection(files.footers().get(p.file()), columns, types).isEmpty()) {
-        return Optional.empty();
-      }
-    }
     try {
-      List<double[][]> read = readAll(files, parts, columns, types);
+      List<double[][]> read = SideBySide.map(parts, READERS, "sluice-pilot", "Cannot read the pilot rows",
+          p -> readPart(files, p, columns));
       double[][] out = new double[columns.size()][(int) taken];
       int at = 0;
       for (double[][] block : read) {
@@ -158,44 +154,11 @@ public final class ParquetPilot {
     };
   }
 
-  /** Each part's values, in order, its row groups read side by side. */
-  private static List<double[][]> readAll(ParquetFooters.Files files, List<Part> parts,
-      List<String> columns, List<DataType> types) {
-    if (parts.size() == 1) {
-      return java.util.Collections.singletonList(readPart(files, parts.get(0), columns, types));
-    }
-    ExecutorService pool = Executors.newFixedThreadPool(Math.min(READERS, parts.size()), r -> {
-      Thread t = new Thread(r, "sluice-pilot");
-      t.setDaemon(true);
-      return t;
-    });
-    try {
-      List<Future<double[][]>> read = new ArrayList<>();
-      for (Part p : parts) {
-        read.add(pool.submit(() -> readPart(files, p, columns, types)));
-      }
-      List<double[][]> out = new ArrayList<>();
-      for (Future<double[][]> f : read) {
-        out.add(f.get());
-      }
-      return out;
-    } catch (ExecutionException e) {
-      throw e.getCause() instanceof RuntimeException r ? r
-          : new IllegalStateException("Cannot read the pilot rows", e.getCause());
-    } catch (InterruptedException e) {
-      Thread.currentThread().interrupt();
-      throw new IllegalStateException("Interrupted while reading the pilot rows", e);
-    } finally {
-      pool.shutdownNow();
-    }
-  }
-
   /** One part's values: the pages of its row group that hold its first rows, decoded. */
-  private static double[][] readPart(ParquetFooters.Files files, Part part, List<String> columns,
-      List<DataType> types) {
+  private static double[][] readPart(ParquetFooters.Files files, Part part, List<String> columns) {
     Path path = files.paths().get(part.file());
     ParquetMetadata footer = files.footers().get(part.file());
-    MessageType schema = projection(footer, columns, types).orElseThrow();
+    MessageType schema = part.schema();
     try {
       HadoopInputFile file = HadoopInputFile.fromPath(path, files.hadoop());
       // Plain reads: with vectored reads (Parquet's default), pass 1's time after this pilot varied
