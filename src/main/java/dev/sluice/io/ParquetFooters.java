@@ -5,7 +5,6 @@ import java.io.UncheckedIOException;
 import java.util.ArrayList;
 import java.util.List;
 import java.util.Optional;
-import java.util.OptionalLong;
 import org.apache.hadoop.conf.Configuration;
 import org.apache.hadoop.fs.FileSystem;
 import org.apache.hadoop.fs.FileStatus;
@@ -33,7 +32,7 @@ public final class ParquetFooters {
   private static final Logger LOG = LoggerFactory.getLogger(ParquetFooters.class);
 
   /**
-   * Most files {@link #rowsRead} reads the footers of; a table of more is counted by Spark, whose
+   * Most files {@link #read} reads the footers of; a table of more is counted by Spark, whose
    * tasks spread the reads over the executors.
    */
   static final int MOST_FILES = 256;
@@ -55,15 +54,6 @@ public final class ParquetFooters {
     public long rows() {
       return footers.stream().mapToLong(ParquetFooters::rowsOf).sum();
     }
-  }
-
-  /**
-   * The rows Spark will read from {@code data}, from its files' footers (see {@link #read});
-   * otherwise, or when a footer cannot be read, empty, and the caller counts with Spark.
-   */
-  public static OptionalLong rowsRead(Dataset<Row> data) {
-    Optional<Files> files = read(data);
-    return files.isPresent() ? OptionalLong.of(files.get().rows()) : OptionalLong.empty();
   }
 
   /**
