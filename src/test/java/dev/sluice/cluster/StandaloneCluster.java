@@ -1,7 +1,6 @@
 package dev.sluice.cluster;
 
 import java.io.IOException;
-import java.net.ServerSocket;
 import java.net.URI;
 import java.net.http.HttpClient;
 import java.net.http.HttpRequest;
@@ -31,15 +30,14 @@ final class StandaloneCluster implements AutoCloseable {
   private final Path home;
   private final List<String> javaFlags;
   private final List<Process> daemons = new ArrayList<>();
-  private final int masterPort;
-  private final int masterUiPort;
+  /** The master's address and status page, as the master itself reported them once bound. */
+  private String masterUrl;
+  private URI masterUi;
 
-  private StandaloneCluster(Path dir, List<String> javaFlags) throws IOException {
+  private StandaloneCluster(Path dir, List<String> javaFlags) {
     this.dir = dir;
     this.home = dir.resolve("spark-home");
     this.javaFlags = javaFlags;
-    this.masterPort = freePort();
-    this.masterUiPort = freePort();
   }
 
   /**
@@ -56,14 +54,19 @@ final class StandaloneCluster implements AutoCloseable {
       for (Path jar : extraJars) {
         Files.createSymbolicLink(c.home.resolve("jars").resolve(jar.getFileName()), jar.toAbsolutePath());
       }
-      c.daemons.add(c.java("master", List.of("-Xmx256m"), "org.apache.spark.deploy.master.Master",
-          "--host", "127.0.0.1", "--port", String.valueOf(c.masterPort),
-          "--webui-port", String.valueOf(c.masterUiPort)));
+      // Every port is picked by the process that binds it (port 0) and read back from its log. A
+      // port chosen here in advance and released could be taken by another daemon before its owner
+      // binds it; the master would then move its status page and the wait below would ask a
+      // worker's RPC port for it.
+      Process master = c.java("master", List.of("-Xmx256m"), "org.apache.spark.deploy.master.Master",
+          "--host", "127.0.0.1", "--port", "0", "--webui-port", "0");
+      c.daemons.add(master);
+      c.awaitMaster(master, Duration.ofSeconds(90));
       for (int w = 0; w < workers; w++) {
         Path work = Files.createDirectories(dir.resolve("worker-" + w));
         c.daemons.add(c.java("worker-" + w, List.of("-Xmx256m"), "org.apache.spark.deploy.worker.Worker",
             "--host", "127.0.0.1", "--cores", "1", "--memory", workerMb + "m",
-            "--work-dir", work.toString(), "--webui-port", "0", c.masterUrl()));
+            "--work-dir", work.toString(), "--port", "0", "--webui-port", "0", c.masterUrl));
       }
       c.awaitWorkers(workers, Duration.ofSeconds(90));
       return c;
@@ -74,7 +77,7 @@ final class StandaloneCluster implements AutoCloseable {
   }
 
   String masterUrl() {
-    return "spark://127.0.0.1:" + masterPort;
+    return masterUrl;
   }
 
   Path home() {
@@ -212,10 +215,34 @@ final class StandaloneCluster implements AutoCloseable {
     }
   }
 
+  private static final Pattern MASTER_URL = Pattern.compile("Starting Spark master at (spark://\\S+)");
+  private static final Pattern MASTER_UI = Pattern.compile("Bound MasterWebUI to \\S+ and started at http://[^:/\\s]+:(\\d+)");
+
+  /** Waits until the master's log says where it listens and where its status page is. */
+  private void awaitMaster(Process master, Duration timeout) throws IOException, InterruptedException {
+    Path log = dir.resolve("master.log");
+    long deadline = System.nanoTime() + timeout.toNanos();
+    while (System.nanoTime() < deadline) {
+      String text = Files.exists(log) ? Files.readString(log, StandardCharsets.UTF_8) : "";
+      Matcher url = MASTER_URL.matcher(text);
+      Matcher ui = MASTER_UI.matcher(text);
+      if (url.find() && ui.find()) {
+        masterUrl = url.group(1);
+        masterUi = URI.create("http://127.0.0.1:" + ui.group(1) + "/json/");
+        return;
+      }
+      if (!master.isAlive()) {
+        throw new IllegalStateException("The master exited early; see " + log);
+      }
+      Thread.sleep(200);
+    }
+    throw new IllegalStateException("The master did not report its ports within " + timeout + "; see " + log);
+  }
+
   /** Waits until the master's status page lists {@code n} live workers. */
   private void awaitWorkers(int n, Duration timeout) throws IOException, InterruptedException {
     HttpClient http = HttpClient.newHttpClient();
-    URI status = URI.create("http://127.0.0.1:" + masterUiPort + "/json/");
+    URI status = masterUi;
     long deadline = System.nanoTime() + timeout.toNanos();
     String last = "";
     while (System.nanoTime() < deadline) {
@@ -242,11 +269,5 @@ final class StandaloneCluster implements AutoCloseable {
     }
     throw new IllegalStateException("Fewer than " + n + " workers registered within " + timeout
         + "; the master said: " + last);
-  }
-
-  private static int freePort() throws IOException {
-    try (ServerSocket s = new ServerSocket(0)) {
-      return s.getLocalPort();
-    }
   }
 }
