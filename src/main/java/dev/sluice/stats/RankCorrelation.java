@@ -179,13 +179,12 @@ public final class RankCorrelation {
     return columns;
   }
 
-  /** Weighted, doubled, centred mid-ranks of one column at a time, by an LSD radix sort. */
+  /** Weighted, doubled, centred mid-ranks of one column at a time, by a radix sort ({@link RadixSort}). */
   private static final class Ranker {
     final long[] keys;
     final long[] keysSwap;
     final int[] rowsOf;
     final int[] rowsSwap;
-    final int[] counts = new int[256];
     int missing;
     int groups;
     long columnWeight;
@@ -208,10 +207,8 @@ public final class RankCorrelation {
       for (int i = 0; i < n; i++) {
         double v = column[i];
         if (!Double.isNaN(v)) {
-          long bits = Double.doubleToRawLongBits(v == 0.0 ? 0.0 : v);
-          // Flip all bits of negatives and the sign bit of positives: unsigned order of the keys
-          // is then numeric order.
-          keys[m] = bits ^ ((bits >> 63) | Long.MIN_VALUE);
+          // -0.0 ranks with 0.0; unsigned order of the keys is numeric order.
+          keys[m] = RadixSort.key(v == 0.0 ? 0.0 : v);
           rowsOf[m] = i;
           m++;
           present[i] = 1;
@@ -221,36 +218,9 @@ public final class RankCorrelation {
       }
       missing = n - m;
       columnWeight = weight;
+      RadixSort.sort(keys, rowsOf, m, keysSwap, rowsSwap);
       long[] sortedKeys = keys;
       int[] sortedRows = rowsOf;
-      long[] otherKeys = keysSwap;
-      int[] otherRows = rowsSwap;
-      for (int shift = 0; shift < 64 && m > 1; shift += 8) {
-        Arrays.fill(counts, 0);
-        for (int t = 0; t < m; t++) {
-          counts[(int) (sortedKeys[t] >>> shift) & 0xFF]++;
-        }
-        if (counts[(int) (sortedKeys[0] >>> shift) & 0xFF] == m) {
-          continue; // every key has this byte: the pass would not move anything
-        }
-        int sum = 0;
-        for (int d = 0; d < 256; d++) {
-          int c = counts[d];
-          counts[d] = sum;
-          sum += c;
-        }
-        for (int t = 0; t < m; t++) {
-          int at = counts[(int) (sortedKeys[t] >>> shift) & 0xFF]++;
-          otherKeys[at] = sortedKeys[t];
-          otherRows[at] = sortedRows[t];
-        }
-        long[] k = sortedKeys;
-        sortedKeys = otherKeys;
-        otherKeys = k;
-        int[] r = sortedRows;
-        sortedRows = otherRows;
-        otherRows = r;
-      }
       // Groups of equal keys: doubled centred mid-rank 2 (W + (g + 1) / 2) - (T + 1) = 2W + g - T.
       groups = 0;
       long before = 0;

@@ -124,14 +124,37 @@ public final class RankSearch {
     return windows(split, flags);
   }
 
-  /** A copy of the pilot in ascending order, -0.0 as 0.0. */
+  /**
+   * A copy of the pilot in ascending order, -0.0 as 0.0 and NaN (if any) last, as Arrays.sort
+   * orders doubles; by a radix sort ({@link RadixSort}). An array already so is copied as it is.
+   */
   public static double[] sorted(double[] pilot) {
-    double[] sorted = pilot.clone();
-    for (int i = 0; i < sorted.length; i++) {
-      sorted[i] += 0.0;
+    int m = pilot.length;
+    if (isSorted(pilot)) {
+      return pilot.clone();
     }
-    Arrays.parallelSort(sorted);
+    long[] keys = new long[m];
+    for (int i = 0; i < m; i++) {
+      double v = pilot[i] + 0.0;
+      keys[i] = RadixSort.key(v == v ? v : Double.NaN);
+    }
+    RadixSort.sort(keys, null, m, new long[m], null);
+    double[] sorted = new double[m];
+    for (int i = 0; i < m; i++) {
+      sorted[i] = RadixSort.value(keys[i]);
+    }
     return sorted;
+  }
+
+  /** In ascending order with no -0.0 and no NaN: what {@link #sorted} would return. */
+  private static boolean isSorted(double[] a) {
+    for (int i = 0; i < a.length; i++) {
+      double v = a[i];
+      if (v != v || Double.doubleToRawLongBits(v) == Long.MIN_VALUE || (i > 0 && !(a[i - 1] <= v))) {
+        return false;
+      }
+    }
+    return true;
   }
 
   /**
