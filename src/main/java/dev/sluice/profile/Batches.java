@@ -78,15 +78,66 @@ public final class Batches {
 
   /**
    * The first n values of a numeric vector as DOUBLE, cast as Spark casts them; a null is
-   * {@code nulls[i] = true} (its value slot is NaN).
+   * {@code nulls[i] = true} (its value slot is NaN). Returns the number of nulls.
    */
-  public static void doubles(ColumnVector v, DataType t, int n, double[] out, boolean[] nulls) {
+  public static int doubles(ColumnVector v, DataType t, int n, double[] out, boolean[] nulls) {
     boolean anyNull = v.hasNull();
-    for (int i = 0; i < n; i++) {
-      boolean isNull = anyNull && v.isNullAt(i);
-      nulls[i] = isNull;
-      out[i] = isNull ? Double.NaN : valueAt(v, t, i);
+    // Spark's own vectors (Parquet's reader fills them) read any slot, a null's included: one loop
+    // per type copies every value, and nulls are then marked. Other vectors, and decimals, are read
+    // only where not null.
+    int count = 0;
+    if (!(v instanceof WritableColumnVector) || !copyAll(v, t, n, out)) {
+      for (int i = 0; i < n; i++) {
+        boolean isNull = anyNull && v.isNullAt(i);
+        nulls[i] = isNull;
+        out[i] = isNull ? Double.NaN : valueAt(v, t, i);
+        count += isNull ? 1 : 0;
+      }
+      return count;
     }
+    if (!anyNull) {
+      java.util.Arrays.fill(nulls, 0, n, false);
+      return 0;
+    }
+    for (int i = 0; i < n; i++) {
+      boolean isNull = v.isNullAt(i);
+      nulls[i] = isNull;
+      out[i] = isNull ? Double.NaN : out[i];
+      count += isNull ? 1 : 0;
+    }
+    return count;
+  }
+
+  /** Every slot's value as DOUBLE, for the primitive types; false (nothing read) for others. */
+  private static boolean copyAll(ColumnVector v, DataType t, int n, double[] out) {
+    if (t instanceof DoubleType) {
+      for (int i = 0; i < n; i++) {
+        out[i] = v.getDouble(i);
+      }
+    } else if (t instanceof IntegerType) {
+      for (int i = 0; i < n; i++) {
+        out[i] = v.getInt(i);
+      }
+    } else if (t instanceof LongType) {
+      for (int i = 0; i < n; i++) {
+        out[i] = v.getLong(i);
+      }
+    } else if (t instanceof FloatType) {
+      for (int i = 0; i < n; i++) {
+        out[i] = v.getFloat(i);
+      }
+    } else if (t instanceof ShortType) {
+      for (int i = 0; i < n; i++) {
+        out[i] = v.getShort(i);
+      }
+    } else if (t instanceof ByteType) {
+      for (int i = 0; i < n; i++) {
+        out[i] = v.getByte(i);
+      }
+    } else {
+      return false;
+    }
+    return true;
   }
 
   private static double valueAt(ColumnVector v, DataType t, int i) {

@@ -73,8 +73,7 @@ final class ProfileAccumulator implements RowScan.Accumulator<ProfileAccumulator
   private transient long[] batchMasks;
   /** Scratch of {@link #togetherInBatch}: rows of a batch by their only null column (64: none). */
   private transient long[] singleMasks;
-  /** Scratch of {@link #measureColumn}: a batch's finite, valid values, and the same by region. */
-  private transient double[] kept;
+  /** Scratch of {@link #measureColumn}: a batch's finite, valid values by region. */
   private transient double[] grouped;
   private transient int[] starts;
 
@@ -244,8 +243,8 @@ final class ProfileAccumulator implements RowScan.Accumulator<ProfileAccumulator
       int i = layout.measuredAt[j];
       double[] v = batchValues[j];
       boolean[] isNull = batchNulls[j];
-      Batches.doubles(batch.column(layout.rawAt[i]), layout.rawTypes[i], n, v, isNull);
-      measureColumn(j, v, isNull, n);
+      int nulls = Batches.doubles(batch.column(layout.rawAt[i]), layout.rawTypes[i], n, v, isNull);
+      measureColumn(j, v, isNull, n, nulls);
     }
     for (int i : layout.categorical) {
       ColumnVector v = batch.column(layout.rawAt[i]);
@@ -373,30 +372,25 @@ final class ProfileAccumulator implements RowScan.Accumulator<ProfileAccumulator
   }
 
   /**
-   * {@link #measure} on the non-null values {@code v[0 .. n - 1]} of column j: the same figures, bit
-   * for bit. The finite, valid values are gathered without branches, placed in their regions by
-   * {@link OrderWindows#addAll}, and each region's values go to its moments in one call, in the
-   * order they came; the rare other values are counted in a second loop only when there are some.
+   * {@link #measure} on the non-null values {@code v[0 .. n - 1]} of column j ({@code nulls} of
+   * them null): the same figures, bit for bit. The finite, valid values are placed in their regions
+   * by {@link OrderWindows#addAllWithin}, which leaves the others out in the same loop, and each
+   * region's values go to its moments in one call, in the order they came; the rare other values
+   * are counted in a second loop only when there are some.
    */
-  private void measureColumn(int j, double[] v, boolean[] isNull, int n) {
-    if (kept == null || kept.length < n) {
-      kept = new double[Math.max(n, 4096)];
-      grouped = new double[kept.length];
+  private void measureColumn(int j, double[] v, boolean[] isNull, int n, int nulls) {
+    if (grouped == null || grouped.length < n) {
+      grouped = new double[Math.max(n, 4096)];
     }
     NumericSteps valid = validity[j];
     // Finite and valid exactly when within [low, high] (NaN compares false).
     double low = Math.max(-Double.MAX_VALUE, valid.validMin());
     double high = Math.min(Double.MAX_VALUE, valid.validMax());
-    double[] in = kept;
-    int count = 0;
-    int nulls = 0;
-    for (int r = 0; r < n; r++) {
-      double x = v[r];
-      boolean absent = isNull[r];
-      in[count] = x;
-      count += !absent & x >= low & x <= high ? 1 : 0;
-      nulls += absent ? 1 : 0;
+    OrderWindows w = windows[j];
+    if (starts == null || starts.length < w.regions() + 1) {
+      starts = new int[w.regions() + 1];
     }
+    int count = w.addAllWithin(v, isNull, n, low, high, grouped, starts);
     if (count + nulls < n) {
       for (int r = 0; r < n; r++) {
         double x = v[r];
@@ -412,11 +406,6 @@ final class ProfileAccumulator implements RowScan.Accumulator<ProfileAccumulator
         }
       }
     }
-    OrderWindows w = windows[j];
-    if (starts == null || starts.length < w.regions() + 1) {
-      starts = new int[w.regions() + 1];
-    }
-    w.addAll(in, count, grouped, starts);
     ScaledMoments[] m = moments[j];
     for (int r = 0; r < m.length; r++) {
       if (starts[r] < starts[r + 1]) {

@@ -148,6 +148,17 @@ public final class OrderWindows implements Serializable {
    * random.
    */
   public void addAll(double[] x, int n, double[] grouped, int[] starts) {
+    addAllWithin(x, null, n, Double.NEGATIVE_INFINITY, Double.POSITIVE_INFINITY, grouped, starts);
+  }
+
+  /**
+   * {@link #addAll} of those of {@code x[0 .. n - 1]} that are present ({@code isNull[i]} false;
+   * every one when {@code isNull} is null) and within {@code [low, high]} (NaN never is), in their
+   * order; returns how many those are. The others are left out in the same loop that finds each
+   * value's region, rather than by copying the kept values first.
+   */
+  public int addAllWithin(double[] x, boolean[] isNull, int n, double low, double high,
+      double[] grouped, int[] starts) {
     int regions = counts.length;
     if (regionScratch == null || regionScratch.length < n) {
       regionScratch = new int[Math.max(n, 4096)];
@@ -157,12 +168,16 @@ public final class OrderWindows implements Serializable {
     }
     RegionLookup look = lookup;
     int[] region = regionScratch;
-    int[] inBatch = new int[regions];
+    // One more region, last: the values left out.
+    int[] inBatch = new int[regions + 1];
     for (int i = 0; i < n; i++) {
-      int r = look.regionOrMinusOne(x[i]);
-      if (r < 0) {
-        r = regionOf(x[i]);
+      double v = x[i];
+      boolean keep = (isNull == null || !isNull[i]) & v >= low & v <= high;
+      int r = look.regionOrMinusOne(v);
+      if (r < 0 && keep) {
+        r = regionOf(v);
       }
+      r = keep ? r : regions;
       region[i] = r;
       inBatch[r]++;
     }
@@ -172,11 +187,13 @@ public final class OrderWindows implements Serializable {
       start += inBatch[r];
     }
     starts[regions] = start;
-    int[] next = Arrays.copyOf(starts, regions);
+    // The values left out land after the kept ones, where nothing reads them.
+    int[] next = Arrays.copyOf(starts, regions + 1);
     for (int i = 0; i < n; i++) {
       grouped[next[region[i]]++] = x[i];
     }
     holdGrouped(grouped, starts, inBatch);
+    return start;
   }
 
   /**

@@ -112,6 +112,54 @@ class OrderWindowsTest {
     }
   }
 
+  @Test
+  void valuesLeftOutByTheFilterAreNeitherCountedNorHeld() {
+    SplittableRandom random = new SplittableRandom(20261204L);
+    for (OrderWindows layout : layouts()) {
+      OrderWindows one = layout.emptyCopy();
+      OrderWindows within = layout.emptyCopy();
+      int regions = layout.regions();
+      double[] x = values(layout, random, 3000);
+      boolean[] isNull = new boolean[x.length];
+      // Nulls, NaN, infinities and values outside [low, high] among the values, at random.
+      double low = x[random.nextInt(x.length)];
+      double high = Math.max(low, x[random.nextInt(x.length)]);
+      for (int i = 0; i < x.length; i++) {
+        int kind = random.nextInt(20);
+        if (kind == 0) {
+          isNull[i] = true;
+        } else if (kind == 1) {
+          x[i] = Double.NaN;
+        } else if (kind == 2) {
+          x[i] = random.nextBoolean() ? Double.POSITIVE_INFINITY : Double.NEGATIVE_INFINITY;
+        }
+      }
+      List<List<Double>> expected = new ArrayList<>();
+      for (int r = 0; r < regions; r++) {
+        expected.add(new ArrayList<>());
+      }
+      int kept = 0;
+      for (int i = 0; i < x.length; i++) {
+        if (!isNull[i] && x[i] >= low && x[i] <= high) {
+          expected.get(one.add(x[i])).add(x[i]);
+          kept++;
+        }
+      }
+      double[] grouped = new double[x.length];
+      int[] starts = new int[regions + 1];
+      assertThat(within.addAllWithin(x, isNull, x.length, low, high, grouped, starts)).isEqualTo(kept);
+      assertThat(starts[regions]).isEqualTo(kept);
+      for (int r = 0; r < regions; r++) {
+        double[] got = Arrays.copyOfRange(grouped, starts[r], starts[r + 1]);
+        double[] want = expected.get(r).stream().mapToDouble(Double::doubleValue).toArray();
+        assertThat(Arrays.stream(got).mapToLong(Double::doubleToRawLongBits).toArray())
+            .as("region %d of %s", r, Arrays.toString(window(layout)))
+            .containsExactly(Arrays.stream(want).mapToLong(Double::doubleToRawLongBits).toArray());
+      }
+      assertSameFigures(within, one);
+    }
+  }
+
   /**
    * Same counts per region, same overflow, histograms and held values (as multisets) per window.
    * In a merge the total is the same either way, so a window overflows in both or in neither.
