@@ -93,7 +93,12 @@ public final class CoMoments implements Serializable {
   private transient int[] constantCount;
   private transient int[][] stateRows;
   private transient int pending;
-  private static final int BLOCK = 64;
+  /**
+   * Rows per block: as many as keep the block near 20 KB, so that it stays in the processor's
+   * first-level cache while the triangle reads it; longer loops cost less per row (on 10 columns,
+   * 256 rows a block took about 10 % less time per row than 64).
+   */
+  private final int blockRows;
 
   /** @throws IllegalArgumentException for no centres or a non-finite centre */
   public CoMoments(double[] centres) {
@@ -136,6 +141,7 @@ public final class CoMoments implements Serializable {
     this.stateU2 = new double[STATES][p * p];
     this.statePresent = new double[STATES][p * p];
     this.stateCount = new double[STATES * STATES][p * p];
+    this.blockRows = Math.max(64, Math.min(256, 2560 / p));
   }
 
   /** An empty accumulator with the same centres and scales (each task of a pass starts from one). */
@@ -229,7 +235,7 @@ public final class CoMoments implements Serializable {
       }
     }
     if (block == null) {
-      block = new double[p][BLOCK];
+      block = new double[p][blockRows];
     }
     if (u == null) {
       u = new double[p];
@@ -253,7 +259,7 @@ public final class CoMoments implements Serializable {
     }
     rows++;
     pending++;
-    if (pending == BLOCK) {
+    if (pending == blockRows) {
       flush();
     }
   }
@@ -276,7 +282,7 @@ public final class CoMoments implements Serializable {
           "Cannot add rows of " + values.length + " columns to " + p + " columns");
     }
     if (block == null) {
-      block = new double[p][BLOCK];
+      block = new double[p][blockRows];
     }
     if (constantRows == null || constantRows[0].length < count) {
       int size = Math.max(count, 4096);
@@ -287,14 +293,14 @@ public final class CoMoments implements Serializable {
     java.util.Arrays.fill(constantCount, 0);
     int done = 0;
     while (done < count) {
-      int m = Math.min(BLOCK - pending, count - done);
+      int m = Math.min(blockRows - pending, count - done);
       for (int j = 0; j < p; j++) {
         centre(j, values[j], states[j], which, done, m);
       }
       rows += m;
       pending += m;
       done += m;
-      if (pending == BLOCK) {
+      if (pending == blockRows) {
         flush();
       }
     }
