@@ -17,6 +17,7 @@ import java.util.Arrays;
 import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Map;
+import org.apache.spark.SparkConf;
 import org.apache.spark.sql.Column;
 import org.apache.spark.sql.Dataset;
 import org.apache.spark.sql.Row;
@@ -77,7 +78,10 @@ public final class Benchmark {
 
   public static void main(String[] args) throws IOException {
     Options o = Options.parse(args);
-    SparkSession spark = SparkSession.builder().master(System.getProperty("spark.master", "local[*]"))
+    SparkConf conf = new SparkConf().setMaster(System.getProperty("spark.master", "local[*]"));
+    // What a local run of the job sets for its session (cli.Main.localDefaults).
+    Main.localDefaults(conf);
+    SparkSession spark = SparkSession.builder().config(conf)
         .appName("sluice-bench").config("spark.ui.enabled", "false")
         .config("spark.ui.showConsoleProgress", "false")
         // What `run` and `survey` set for themselves (see cli.Job); set for the whole session so

@@ -82,7 +82,25 @@ public final class Main {
     conf.setIfMissing("spark.app.name", "sluice");
     conf.setIfMissing("spark.ui.showConsoleProgress", "false");
     settings.sparkConf().forEach(conf::set);
+    localDefaults(conf);
     return SparkSession.builder().config(conf).getOrCreate();
+  }
+
+  /** Spark's setting for the size of a task result sent directly, not through the block manager. */
+  public static final String DIRECT_RESULT_SIZE = "spark.task.maxDirectResultSize";
+
+  /**
+   * What a local session sets for itself unless given: pass 1's task results are several MB each
+   * (each partition's held values and sampled rows), and Spark sends a result over 1 MB through
+   * its block manager, a store and a fetch that in a local session loop back into the same JVM. A
+   * local session sends them directly (Spark still caps a direct result at
+   * spark.rpc.message.maxSize, 128 MB by default). On a cluster Spark's default stays: there the
+   * driver fetches large results at its own pace instead of receiving them all at once.
+   */
+  public static void localDefaults(SparkConf conf) {
+    if (conf.get("spark.master", "").startsWith("local")) {
+      conf.setIfMissing(DIRECT_RESULT_SIZE, "128m");
+    }
   }
 
   static String oneLine(String message) {
