@@ -351,23 +351,42 @@ public final class Job {
 
   /**
    * The summary and correlation tables and plan.json, written by the driver (see {@link
-   * Outputs#parquet}); the correlation table on a thread of its own, beside the rest.
+   * Outputs#parquet}), side by side: each file costs mostly the file system's latency (creating
+   * it, its checksum file, closing), not processing.
    */
   private void writeTables(Sluice.Fit fit, OutputLayout out) {
     List<Map<String, Object>> pairs = CorrelationTable.rows(fit.plan().collinearity());
-    CompletableFuture<Void> correlations = CompletableFuture.runAsync(
-        () -> Outputs.parquet(spark, out.staged("correlations"), CorrelationTable.COLUMNS, pairs), BESIDE);
+    List<Map<String, Object>> summary = SummaryTable.rows(fit.profile(), fit.plan(), fit.stats());
+    List<Runnable> writes = List.of(
+        () -> Outputs.parquet(spark, out.staged("summary"), SummaryTable.COLUMNS, summary),
+        () -> Outputs.parquet(spark, out.staged("correlations"), CorrelationTable.COLUMNS, pairs),
+        () -> Outputs.csv(spark, out.staged("summary.csv"), SummaryTable.COLUMNS, summary),
+        () -> Outputs.csv(spark, out.staged("correlations.csv"), CorrelationTable.COLUMNS, pairs),
+        () -> Outputs.json(spark, out.staged("plan.json"), fit.plan()));
+    List<CompletableFuture<Void>> beside = writes.subList(1, writes.size()).stream()
+        .map(w -> CompletableFuture.runAsync(w, BESIDE)).toList();
+    RuntimeException failure = null;
     try {
-      List<Map<String, Object>> summary = SummaryTable.rows(fit.profile(), fit.plan(), fit.stats());
-      Outputs.parquet(spark, out.staged("summary"), SummaryTable.COLUMNS, summary);
-      Outputs.csv(spark, out.staged("summary.csv"), SummaryTable.COLUMNS, summary);
-      Outputs.csv(spark, out.staged("correlations.csv"), CorrelationTable.COLUMNS, pairs);
-      Outputs.json(spark, out.staged("plan.json"), fit.plan());
+      writes.get(0).run();
     } catch (RuntimeException e) {
-      awaitQuietly(correlations, e);
-      throw e;
+      failure = e;
     }
-    await(correlations);
+    // Every write is waited for, so nothing writes on after this returns; the first failure is
+    // thrown with the others attached.
+    for (CompletableFuture<Void> f : beside) {
+      try {
+        await(f);
+      } catch (RuntimeException e) {
+        if (failure == null) {
+          failure = e;
+        } else {
+          failure.addSuppressed(e);
+        }
+      }
+    }
+    if (failure != null) {
+      throw failure;
+    }
   }
 
   /** The output must not be, contain or lie inside the input: the input is never written to. */

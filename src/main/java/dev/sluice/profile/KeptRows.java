@@ -53,11 +53,17 @@ final class KeptRows implements PassOneShare.RowsAside {
     if (count == 0) {
       return empty.emptyCopy();
     }
-    // Merged in a tree only for many partitions, as pass 1's parts are: for a few, a tree's
-    // extra shuffle stage costs more than the merges it spreads.
-    return parts.filter(o -> o instanceof EarlyTreatment.Rows)
-        .map(o -> ((EarlyTreatment.Rows) o).treated(steps, empty))
-        .treeReduce(CoMoments::merge, RowScan.depth(parts));
+    // The kept rows are a small share of each partition: one task per core reads several
+    // partitions' blocks (coalesced by where the blocks are), rather than a task each, whose
+    // launch costs more than its rows. Merged in a tree only for many partitions, as pass 1's
+    // parts are: for a few, a tree's extra shuffle stage costs more than the merges it spreads.
+    JavaRDD<Object> rows = parts.filter(o -> o instanceof EarlyTreatment.Rows);
+    int cores = Math.max(1, parts.context().defaultParallelism());
+    if (rows.getNumPartitions() > cores) {
+      rows = rows.coalesce(cores);
+    }
+    return rows.map(o -> ((EarlyTreatment.Rows) o).treated(steps, empty))
+        .treeReduce(CoMoments::merge, RowScan.depth(rows));
   }
 
   @Override
