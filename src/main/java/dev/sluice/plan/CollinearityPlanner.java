@@ -107,15 +107,23 @@ final class CollinearityPlanner {
     }
     RowSample.Weighted kept = sample.weighted();
     double[][] raw = kept.rows();
-    double[][] treated = new double[raw.length][p];
+    int[] at = new int[p];
+    NumericSteps[] steps = new NumericSteps[p];
+    Double[] fill = new Double[p];
     for (int i = 0; i < p; i++) {
       ColumnPlan cp = find(plans, columns.get(i));
-      int at = profile.sampleColumns().indexOf(cp.name());
-      NumericSteps steps = cp.outliers().steps(cp.validMin(), cp.validMax());
-      Double fill = cp.missing().fillNumber();
-      for (int r = 0; r < raw.length; r++) {
-        double t = steps.treated(raw[r][at]);
-        treated[r][i] = Double.isNaN(t) && fill != null ? fill : t;
+      at[i] = profile.sampleColumns().indexOf(cp.name());
+      steps[i] = cp.outliers().steps(cp.validMin(), cp.validMax());
+      fill[i] = cp.missing().fillNumber();
+    }
+    // Row by row: each sampled row is read once, not once per column.
+    double[][] treated = new double[raw.length][p];
+    for (int r = 0; r < raw.length; r++) {
+      double[] in = raw[r];
+      double[] out = treated[r];
+      for (int i = 0; i < p; i++) {
+        double t = steps[i].treated(in[at[i]]);
+        out[i] = Double.isNaN(t) && fill[i] != null ? fill[i] : t;
       }
     }
     return RankCorrelation.spearman(treated, kept.weights());

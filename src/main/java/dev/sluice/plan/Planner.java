@@ -65,6 +65,17 @@ public final class Planner {
   static java.util.SortedMap<String, FitFigures> fitted(TableProfile profile, List<ColumnPlan> columns,
       TreatedStats stats) {
     java.util.SortedMap<String, FitFigures> out = new java.util.TreeMap<>();
+    // Each count reads a window's held values: the columns are counted side by side.
+    Map<String, long[]> counted = new java.util.concurrent.ConcurrentHashMap<>();
+    columns.parallelStream().forEach(cp -> {
+      ColumnProfile c = profile.column(cp.name()).orElse(null);
+      dev.sluice.stats.RankSearch search = profile.quartiles().get(cp.name());
+      if (c != null && cp.treated() && cp.kept() && c.measured() && search != null && c.usable() > 0
+          && !Double.isNaN(c.q1())) {
+        counted.put(cp.name(),
+            new long[] {search.countBelow(c.q1()), search.countBelow(c.median()), search.countBelow(c.q3())});
+      }
+    });
     for (ColumnPlan cp : columns) {
       ColumnProfile c = profile.column(cp.name()).orElse(null);
       if (c == null || !cp.treated() || !cp.kept()) {
@@ -77,9 +88,8 @@ public final class Planner {
       }
       List<Double> edges = List.of(c.q1(), c.median(), c.q3());
       List<Double> shares = null;
-      dev.sluice.stats.RankSearch search = profile.quartiles().get(cp.name());
-      if (search != null && c.usable() > 0 && !Double.isNaN(c.q1())) {
-        long[] below = {search.countBelow(c.q1()), search.countBelow(c.median()), search.countBelow(c.q3())};
+      long[] below = counted.get(cp.name());
+      if (below != null) {
         if (below[0] >= 0 && below[1] >= 0 && below[2] >= 0) {
           double n = c.usable();
           shares = List.of(Published.round(below[0] / n), Published.round((below[1] - below[0]) / n),

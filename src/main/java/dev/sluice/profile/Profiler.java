@@ -22,6 +22,7 @@ import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Map;
 import java.util.Optional;
+import java.util.function.Supplier;
 import org.apache.spark.api.java.JavaRDD;
 import org.apache.spark.sql.Dataset;
 import org.apache.spark.sql.Row;
@@ -73,7 +74,10 @@ public final class Profiler {
       layout = ProfileLayout.of(data.schema(), roles, settings.groups().by());
     }
     int[] measured = layout.measuredColumns();
-    JavaRDD<InternalRow> numeric = RowScan.rows(data, layout.pilotProjection());
+    // Planned by Spark only when a pass or Spark's pilot reads it: with the pilot read from the
+    // Parquet files and every search done in pass 1, never (planning it took 25-47 ms).
+    ProfileLayout planned = layout;
+    Supplier<JavaRDD<InternalRow>> numeric = memoized(() -> RowScan.rows(data, planned.pilotProjection()));
     int perWindow = settings.quantiles().heldPerWindow(QUARTILES.length * measured.length);
     RowScan.Pilot taken = rows > perWindow && measured.length > 0
         ? pilot(data, files, numeric, layout, measured, settings)
@@ -87,22 +91,23 @@ public final class Profiler {
     GroupTally tally = grouped.isEmpty() && groupedText.isEmpty() ? null
         : groupTally(layout, measured, validity, grouped, groupedText, taken, rows, settings);
     int[] sampled = sampledColumns(layout, measured, settings);
+    // The group tally reads each row's group key from Spark's rows.
+    Optional<JavaRDD<ColumnarBatch>> batches = columnar && tally == null && layout.columnar()
+        ? Batches.of(data.select(layout.raw().toArray(new Column[0]))) : Optional.empty();
     double[][] usable = new double[measured.length][];
     // Columns sorted side by side on the driver's cores, while the executors wait for pass 1.
     java.util.stream.IntStream.range(0, measured.length).parallel()
         .forEach(j -> usable[j] = RankSearch.sorted(usable(pilot[j], validity[j])));
     EarlySetup early = pilot.length > 0 && pilot[0].length > 0
         ? EarlySetup.of(settings, layout, validity, pilot, usable, rows,
-            numeric.getNumPartitions(), sampled, perWindow) : null;
+            batches.isPresent() ? batches.get().getNumPartitions() : numeric.get().getNumPartitions(),
+            sampled, perWindow) : null;
     List<RankSearch> searches = new ArrayList<>();
     OrderWindows[] first = firstWindows(perWindow, usable, pilot, rows, searches, early);
     int sampleRows = Math.min(settings.collinearity().spearmanRows(),
         Math.max(1_000, VALUE_BUDGET / Math.max(1, sampled.length)));
     ProfileAccumulator proto = new ProfileAccumulator(layout, validity, first, sampled, sampleRows,
         ProfileAccumulator.sampleCut(sampleRows, rows), early == null ? null : early.treatment, tally);
-    // The group tally reads each row's group key from Spark's rows.
-    Optional<JavaRDD<ColumnarBatch>> batches = columnar && tally == null && layout.columnar()
-        ? Batches.of(data.select(layout.raw().toArray(new Column[0]))) : Optional.empty();
     JavaRDD<ProfileAccumulator> parts = batches.isPresent()
         ? RowScan.batchParts(batches.get(), proto::emptyCopy, ProfileAccumulator::addBatch)
         : RowScan.parts(RowScan.rows(data, layout.projection()), proto::emptyCopy);
@@ -212,7 +217,7 @@ public final class Profiler {
    * search continues, exact, usually in one pass. Columns with more group searches than
    * {@value #MAX_GROUP_TARGETS} are left to the grouped search after the plan.
    */
-  private static GroupMeasures settleLeft(JavaRDD<InternalRow> numeric, GroupTally tally, GroupMeasures groups,
+  private static GroupMeasures settleLeft(Supplier<JavaRDD<InternalRow>> numeric, GroupTally tally, GroupMeasures groups,
       List<String> grouped, ProfileLayout layout, int[] measured, NumericSteps[] validity, RowScan.Pilot pilot,
       Settings settings) {
     int minValues = settings.groups().minValues();
@@ -368,7 +373,7 @@ public final class Profiler {
    * rows of a few partitions ({@link RowScan#pilot}), which also reads the group keys.
    */
   private static RowScan.Pilot pilot(Dataset<Row> data, Optional<ParquetFooters.Files> files,
-      JavaRDD<InternalRow> numeric, ProfileLayout layout, int[] measured, Settings settings) {
+      Supplier<JavaRDD<InternalRow>> numeric, ProfileLayout layout, int[] measured, Settings settings) {
     int wanted = pilotRows(settings, measured.length);
     int parts = pilotPartitions(data, layout.keyAt >= 0);
     // With field IDs, Spark matches a file's columns by ID, not by the names read here.
@@ -385,7 +390,22 @@ public final class Profiler {
         return new RowScan.Pilot(read.get(), new long[0]);
       }
     }
-    return RowScan.pilot(numeric, measured.length, layout.keyAt >= 0 ? measured.length : -1, wanted, parts);
+    return RowScan.pilot(numeric.get(), measured.length, layout.keyAt >= 0 ? measured.length : -1, wanted, parts);
+  }
+
+  /** {@code make}'s value, made on the first call only. */
+  static <T> Supplier<T> memoized(Supplier<T> make) {
+    return new Supplier<>() {
+      private T value;
+
+      @Override
+      public synchronized T get() {
+        if (value == null) {
+          value = make.get();
+        }
+        return value;
+      }
+    };
   }
 
   /** The number of distinct values in a sorted array (-0.0 and 0.0 as one). */
@@ -450,7 +470,7 @@ public final class Profiler {
    * distances of the valid values from the column's exact median, which also finds each group's
    * MAD ({@code keys}; null without groups). NaN for the other columns.
    */
-  private static double[] mads(JavaRDD<InternalRow> numeric, ProfileLayout layout, int[] measured,
+  private static double[] mads(Supplier<JavaRDD<InternalRow>> numeric, ProfileLayout layout, int[] measured,
       Settings settings, NumericSteps[] validity, List<RankSearch> quartiles, double[][] pilot, long rows,
       GroupKeys keys) {
     double[] out = new double[measured.length];

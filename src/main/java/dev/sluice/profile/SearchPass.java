@@ -8,6 +8,7 @@ import java.util.ArrayList;
 import java.util.HashMap;
 import java.util.List;
 import java.util.Map;
+import java.util.function.Supplier;
 import org.apache.spark.api.java.JavaRDD;
 import org.apache.spark.sql.catalyst.InternalRow;
 
@@ -144,6 +145,12 @@ public final class SearchPass implements RowScan.Accumulator<SearchPass> {
    */
   public static int complete(JavaRDD<InternalRow> rows, List<Target> targets, List<RankSearch> searches,
       List<OrderWindows> first) {
+    return complete(() -> rows, targets, searches, first);
+  }
+
+  /** As above, with the rows made only if a pass is needed. */
+  public static int complete(Supplier<JavaRDD<InternalRow>> rows, List<Target> targets,
+      List<RankSearch> searches, List<OrderWindows> first) {
     int passes = 0;
     while (true) {
       List<Integer> open = new ArrayList<>();
@@ -163,7 +170,7 @@ public final class SearchPass implements RowScan.Accumulator<SearchPass> {
         w[k] = searches.get(i).count() < 0 ? first.get(i) : searches.get(i).nextPlan();
       }
       SearchPass proto = new SearchPass(t, w);
-      SearchPass result = RowScan.fold(rows, proto::emptyCopy);
+      SearchPass result = RowScan.fold(rows.get(), proto::emptyCopy);
       passes++;
       for (int k = 0; k < open.size(); k++) {
         searches.get(open.get(k)).absorb(result.windows[k]);
