@@ -73,6 +73,12 @@ final class ProfileAccumulator implements RowScan.Accumulator<ProfileAccumulator
   private transient long[] batchMasks;
   /** Scratch of {@link #togetherInBatch}: rows of a batch by their only null column (64: none). */
   private transient long[] singleMasks;
+  /**
+   * Scratch of {@link #togetherInBatch}: rows of a batch by their two null columns (64 a + b for
+   * columns a < b), and which of those cells the batch touched, in the order it did.
+   */
+  private transient long[] pairMasks;
+  private transient int[] pairsTouched;
   /** Scratch of {@link #measureColumn}: a batch's finite, valid values by region. */
   private transient double[] grouped;
   private transient int[] starts;
@@ -329,6 +335,8 @@ final class ProfileAccumulator implements RowScan.Accumulator<ProfileAccumulator
     }
     if (singleMasks == null) {
       singleMasks = new long[Long.SIZE + 1];
+      pairMasks = new long[Long.SIZE * Long.SIZE];
+      pairsTouched = new int[Long.SIZE * Long.SIZE];
     }
     long[] masks = batchMasks;
     java.util.Arrays.fill(masks, 0, n, 0L);
@@ -348,13 +356,22 @@ final class ProfileAccumulator implements RowScan.Accumulator<ProfileAccumulator
         }
       }
     }
-    // Most rows have no tracked column null or only one: counted by the bit's position (64 for
-    // none), and only the rest one by one in the table.
+    // Most rows have no tracked column null, one or two: counted by the bits' positions (64 for
+    // none) in small tables, and only the rest one by one in the hashed counts.
     long[] single = singleMasks;
+    long[] pair = pairMasks;
+    int[] touched = pairsTouched;
+    int pairs = 0;
     for (int r = 0; r < n; r++) {
       long mask = masks[r];
-      if ((mask & (mask - 1)) == 0) {
+      long rest = mask & (mask - 1);
+      if (rest == 0) {
         single[Long.numberOfTrailingZeros(mask)]++;
+      } else if ((rest & (rest - 1)) == 0) {
+        int cell = (Long.numberOfTrailingZeros(mask) << 6) | Long.numberOfTrailingZeros(rest);
+        if (pair[cell]++ == 0) {
+          touched[pairs++] = cell;
+        }
       } else {
         countTogether(mask);
       }
@@ -368,6 +385,14 @@ final class ProfileAccumulator implements RowScan.Accumulator<ProfileAccumulator
         }
         single[s] = 0;
       }
+    }
+    for (int t = 0; t < pairs; t++) {
+      int cell = touched[t];
+      long mask = (1L << (cell >>> 6)) | (1L << (cell & 63));
+      if (!together.increment(mask, pair[cell])) {
+        together.insert(mask, mask, pair[cell]);
+      }
+      pair[cell] = 0;
     }
   }
 

@@ -9,6 +9,7 @@ import dev.sluice.testing.Fixtures;
 import dev.sluice.testing.SharedSpark;
 import java.nio.file.Path;
 import java.util.HashMap;
+import java.util.List;
 import java.util.Map;
 import org.apache.spark.sql.Dataset;
 import org.apache.spark.sql.Row;
@@ -102,6 +103,46 @@ class ColumnarProfileTest {
     assertThat(columnar.column("pallet").orElseThrow().distinct()).isEqualTo(5000);
     assertThat(columnar.column("odd").orElseThrow().nan()).isPositive();
     assertThat(columnar.column("day").orElseThrow().maxText()).isEqualTo("2026-10-28");
+  }
+
+  @Test
+  void rowsWithOneTwoOrMoreNullColumnsAreCountedAsSparksGroupByCountsThem(SparkSession spark) {
+    String dir = tmp.resolve("nulls").toString();
+    // Four nullable measured columns whose nulls fall with different periods: rows with none, one,
+    // two, three and four of them null, in many combinations.
+    spark.sql("SELECT CASE WHEN id % 3 = 0 THEN NULL ELSE id * 0.5 END AS a,"
+        + " CASE WHEN id % 5 = 1 THEN NULL ELSE id * 1.5 END AS b,"
+        + " CASE WHEN id % 7 < 2 THEN NULL ELSE id - 3.0 END AS c,"
+        + " CASE WHEN id % 4 = 2 THEN NULL ELSE 1000.0 - id END AS d FROM range(6000)")
+        .repartition(2).write().parquet(dir);
+    Dataset<Row> data = spark.read().parquet(dir);
+    Map<String, Role> roles = new HashMap<>();
+    for (String c : data.columns()) {
+      roles.put(c, Role.TREAT);
+    }
+    TableProfile profile = Profiler.profile(data, Fixtures.settings(), roles, true);
+    List<String> names = profile.togetherColumns();
+    assertThat(names).containsExactlyInAnyOrder("a", "b", "c", "d");
+    // Reference: Spark's own group-by of the null flags.
+    Map<Long, Long> expected = new HashMap<>();
+    for (Row r : data.groupBy(functions.col("a").isNull(), functions.col("b").isNull(),
+        functions.col("c").isNull(), functions.col("d").isNull()).count().collectAsList()) {
+      long mask = 0;
+      for (int k = 0; k < 4; k++) {
+        mask |= r.getBoolean(k) ? 1L << names.indexOf(String.valueOf((char) ('a' + k))) : 0L;
+      }
+      if (mask != 0) {
+        expected.put(mask, r.getLong(4));
+      }
+    }
+    Map<Long, Long> counted = new HashMap<>();
+    profile.together().mostCommon(100).forEach(e -> counted.put(e.getKey(), e.getValue()));
+    assertThat(counted).isEqualTo(expected);
+    assertThat(expected.keySet().stream().mapToInt(Long::bitCount).max().orElse(0)).isEqualTo(4);
+    assertThat(expected.keySet().stream().filter(m -> Long.bitCount(m) == 2).count()).isEqualTo(6);
+    // The row path counts the same.
+    assertThat(Profiler.profile(data, Fixtures.settings(), roles, false).together().mostCommon(100))
+        .isEqualTo(profile.together().mostCommon(100));
   }
 
   private static ColumnProfile withoutMoments(ColumnProfile c) {
