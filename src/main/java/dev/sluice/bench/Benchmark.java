@@ -298,25 +298,26 @@ public final class Benchmark {
 
   /**
    * Times one case. First, outside the timing: the removal of {@code output} (the case's
-   * output of the repetition before; null: none), a full collection, a flush of the operating
-   * system's dirty pages ({@link #flushWrites}), a read of every file of {@code input} ({@link
-   * #warm}) and a plain scan of it ({@link #settle}), so that no case pays for what the one
-   * before it left: its garbage (the hand-written pipeline caches the whole table, and the
-   * case after it otherwise spends its first seconds collecting that), the write-back of its
-   * output, the memory it handed back to the host, or an input the kernel dropped from its
-   * page cache while the case before read only its own cache. Every writing case so writes to
-   * a new directory, as a scheduled job writes a new partition: a copy with overwrite would
-   * otherwise delete its old files first and reuse their memory, while {@code run} keeps its
-   * old output until the new one is published, and only then deletes it.
+   * output of the repetition before; null: none), a plain scan of {@code input} ({@link
+   * #settle}), a full collection, a flush of the operating system's dirty pages ({@link
+   * #flushWrites}) and a read of every file of {@code input} ({@link #warm}), so that no case
+   * pays for what the one before it left: its garbage (the hand-written pipeline caches the
+   * whole table, and the case after it otherwise spends its first seconds collecting that),
+   * the write-back of its output, the memory it handed back to the host, or an input the
+   * kernel dropped from its page cache while the case before read only its own cache. Every
+   * writing case so writes to a new directory, as a scheduled job writes a new partition: a
+   * copy with overwrite would otherwise delete its old files first and reuse their memory,
+   * while {@code run} keeps its old output until the new one is published, and only then
+   * deletes it.
    */
   private static double time(Path input, Path output, Runnable r) {
     if (output != null) {
       removeTree(output);
     }
+    settle(input);
     System.gc();
     flushWrites();
     warm(input);
-    settle(input);
     long t = System.nanoTime();
     r.run();
     return (System.nanoTime() - t) / 1e9;
