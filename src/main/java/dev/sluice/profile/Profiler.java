@@ -217,9 +217,9 @@ public final class Profiler {
    * search continues, exact, usually in one pass. Columns with more group searches than
    * {@value #MAX_GROUP_TARGETS} are left to the grouped search after the plan.
    */
-  private static GroupMeasures settleLeft(Supplier<JavaRDD<InternalRow>> numeric, GroupTally tally, GroupMeasures groups,
-      List<String> grouped, ProfileLayout layout, int[] measured, NumericSteps[] validity, RowScan.Pilot pilot,
-      Settings settings) {
+  private static GroupMeasures settleLeft(Supplier<JavaRDD<InternalRow>> numeric, GroupTally tally,
+      GroupMeasures groups, List<String> grouped, ProfileLayout layout, int[] measured,
+      NumericSteps[] validity, RowScan.Pilot pilot, Settings settings) {
     int minValues = settings.groups().minValues();
     List<SearchPass.Target> targets = new ArrayList<>();
     List<String> names = new ArrayList<>();
@@ -390,7 +390,8 @@ public final class Profiler {
         return new RowScan.Pilot(read.get(), new long[0]);
       }
     }
-    return RowScan.pilot(numeric.get(), measured.length, layout.keyAt >= 0 ? measured.length : -1, wanted, parts);
+    return RowScan.pilot(numeric.get(), measured.length, layout.keyAt >= 0 ? measured.length : -1, wanted,
+        parts);
   }
 
   /** {@code make}'s value, made on the first call only. */

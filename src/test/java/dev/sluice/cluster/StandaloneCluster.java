@@ -216,7 +216,8 @@ final class StandaloneCluster implements AutoCloseable {
   }
 
   private static final Pattern MASTER_URL = Pattern.compile("Starting Spark master at (spark://\\S+)");
-  private static final Pattern MASTER_UI = Pattern.compile("Bound MasterWebUI to \\S+ and started at http://[^:/\\s]+:(\\d+)");
+  private static final Pattern MASTER_UI =
+      Pattern.compile("Bound MasterWebUI to \\S+ and started at http://[^:/\\s]+:(\\d+)");
 
   /** Waits until the master's log says where it listens and where its status page is. */
   private void awaitMaster(Process master, Duration timeout) throws IOException, InterruptedException {

@@ -98,14 +98,7 @@ class OrderWindowsTest {
         double[] grouped = new double[batch];
         int[] starts = new int[regions + 1];
         all.addAll(x, batch, grouped, starts);
-        for (int r = 0; r < regions; r++) {
-          double[] got = Arrays.copyOfRange(grouped, starts[r], starts[r + 1]);
-          double[] want = expected.get(r).stream().mapToDouble(Double::doubleValue).toArray();
-          // Bit for bit, so that -0.0 stays -0.0 for the moments that take these values.
-          assertThat(Arrays.stream(got).mapToLong(Double::doubleToRawLongBits).toArray())
-              .as("region %d of %s", r, Arrays.toString(window(layout)))
-              .containsExactly(Arrays.stream(want).mapToLong(Double::doubleToRawLongBits).toArray());
-        }
+        assertGrouped(layout, grouped, starts, expected);
         assertThat(starts[regions]).isEqualTo(batch);
       }
       assertSameFigures(all, one);
@@ -149,14 +142,23 @@ class OrderWindowsTest {
       int[] starts = new int[regions + 1];
       assertThat(within.addAllWithin(x, isNull, x.length, low, high, grouped, starts)).isEqualTo(kept);
       assertThat(starts[regions]).isEqualTo(kept);
-      for (int r = 0; r < regions; r++) {
-        double[] got = Arrays.copyOfRange(grouped, starts[r], starts[r + 1]);
-        double[] want = expected.get(r).stream().mapToDouble(Double::doubleValue).toArray();
-        assertThat(Arrays.stream(got).mapToLong(Double::doubleToRawLongBits).toArray())
-            .as("region %d of %s", r, Arrays.toString(window(layout)))
-            .containsExactly(Arrays.stream(want).mapToLong(Double::doubleToRawLongBits).toArray());
-      }
+      assertGrouped(layout, grouped, starts, expected);
       assertSameFigures(within, one);
+    }
+  }
+
+  /**
+   * Region r's values in {@code grouped[starts[r] .. starts[r + 1] - 1]} are {@code expected.get(r)}
+   * in their order, bit for bit, so that -0.0 stays -0.0 for the moments that take these values.
+   */
+  private static void assertGrouped(OrderWindows layout, double[] grouped, int[] starts,
+      List<List<Double>> expected) {
+    for (int r = 0; r < layout.regions(); r++) {
+      double[] got = Arrays.copyOfRange(grouped, starts[r], starts[r + 1]);
+      double[] want = expected.get(r).stream().mapToDouble(Double::doubleValue).toArray();
+      assertThat(Arrays.stream(got).mapToLong(Double::doubleToRawLongBits).toArray())
+          .as("region %d of %s", r, Arrays.toString(window(layout)))
+          .containsExactly(Arrays.stream(want).mapToLong(Double::doubleToRawLongBits).toArray());
     }
   }
 
