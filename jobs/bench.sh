@@ -9,8 +9,8 @@
 # 1 warm-up repetition (run like the others, printed and written, left out of the medians),
 # tables generated once under target/bench-data and reused, results in target/bench/results.json.
 # --quick: a 20,000-row table and one repetition without warm-up, to check the harness (CI runs
-# it; no timing is asserted). --growth: `run` on N x P, 4N x P and N x W (default N = 1,000,000, W = 200;
-# W = 0 leaves the wide table out), for the linearity and wide-table goals. --skip-peer leaves
+# it; no timing is asserted). --growth: `run` on N x P, 4N x P and N x W (default N = 1,000,000,
+# W = 200; W = 0 leaves the wide table out), for the linearity and wide-table goals. --skip-peer leaves
 # out the hand-written pipeline (about 2 minutes a repetition), for quicker measurements of the
 # other cases while working on them. BENCH_DRIVER_MEMORY sets the heap (default 2g, the memory
 # goal).

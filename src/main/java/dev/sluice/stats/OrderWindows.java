@@ -101,15 +101,18 @@ public final class OrderWindows implements Serializable {
     return new OrderWindows(lo, hi, histogram, maxHeld);
   }
 
-  /** The sortable key of a double: signed order of keys is numeric order, -0.0 maps as 0.0. */
+  /**
+   * The sortable key of a double: signed order of keys is numeric order, -0.0 maps as 0.0 (the
+   * radix sort's key, {@link RadixSort#key}, with its sign bit flipped from unsigned to signed
+   * order).
+   */
   public static long key(double x) {
-    long bits = Double.doubleToRawLongBits(x + 0.0);
-    return bits ^ ((bits >> 63) & 0x7fffffffffffffffL);
+    return RadixSort.key(x + 0.0) ^ Long.MIN_VALUE;
   }
 
   /** The double whose key is {@code k} (the inverse of {@link #key} on non-NaN values). */
   public static double value(long k) {
-    return Double.longBitsToDouble(k ^ ((k >> 63) & 0x7fffffffffffffffL));
+    return RadixSort.value(k ^ Long.MIN_VALUE);
   }
 
   /**

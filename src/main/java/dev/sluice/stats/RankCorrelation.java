@@ -179,7 +179,7 @@ public final class RankCorrelation {
     return columns;
   }
 
-  /** Weighted, doubled, centred mid-ranks of one column at a time, by a radix sort ({@link RadixSort}). */
+  /** Weighted, doubled, centred mid-ranks of one column at a time, by a radix sort. */
   private static final class Ranker {
     final long[] keys;
     final long[] keysSwap;
@@ -219,21 +219,19 @@ public final class RankCorrelation {
       missing = n - m;
       columnWeight = weight;
       RadixSort.sort(keys, rowsOf, m, keysSwap, rowsSwap);
-      long[] sortedKeys = keys;
-      int[] sortedRows = rowsOf;
       // Groups of equal keys: doubled centred mid-rank 2 (W + (g + 1) / 2) - (T + 1) = 2W + g - T.
       groups = 0;
       long before = 0;
       for (int from = 0; from < m; ) {
         int to = from;
         long g = 0;
-        while (to < m && sortedKeys[to] == sortedKeys[from]) {
-          g += weights[sortedRows[to]];
+        while (to < m && keys[to] == keys[from]) {
+          g += weights[rowsOf[to]];
           to++;
         }
         double rank = 2 * before + g - weight;
         for (int t = from; t < to; t++) {
-          column[sortedRows[t]] = rank;
+          column[rowsOf[t]] = rank;
         }
         before += g;
         groups++;

@@ -88,13 +88,7 @@ class OrderWindowsTest {
       int regions = layout.regions();
       for (int batch : new int[] {1, 4096, 0, 777, 5000}) {
         double[] x = values(layout, random, batch);
-        List<List<Double>> expected = new ArrayList<>();
-        for (int r = 0; r < regions; r++) {
-          expected.add(new ArrayList<>());
-        }
-        for (double v : x) {
-          expected.get(one.add(v)).add(v);
-        }
+        List<List<Double>> expected = addedOneByOne(one, x, i -> true);
         double[] grouped = new double[batch];
         int[] starts = new int[regions + 1];
         all.addAll(x, batch, grouped, starts);
@@ -127,17 +121,9 @@ class OrderWindowsTest {
           x[i] = random.nextBoolean() ? Double.POSITIVE_INFINITY : Double.NEGATIVE_INFINITY;
         }
       }
-      List<List<Double>> expected = new ArrayList<>();
-      for (int r = 0; r < regions; r++) {
-        expected.add(new ArrayList<>());
-      }
-      int kept = 0;
-      for (int i = 0; i < x.length; i++) {
-        if (!isNull[i] && x[i] >= low && x[i] <= high) {
-          expected.get(one.add(x[i])).add(x[i]);
-          kept++;
-        }
-      }
+      List<List<Double>> expected =
+          addedOneByOne(one, x, i -> !isNull[i] && x[i] >= low && x[i] <= high);
+      int kept = expected.stream().mapToInt(List::size).sum();
       double[] grouped = new double[x.length];
       int[] starts = new int[regions + 1];
       assertThat(within.addAllWithin(x, isNull, x.length, low, high, grouped, starts)).isEqualTo(kept);
@@ -145,6 +131,24 @@ class OrderWindowsTest {
       assertGrouped(layout, grouped, starts, expected);
       assertSameFigures(within, one);
     }
+  }
+
+  /**
+   * The values {@code x[i]} that {@code keep} takes, added one at a time to {@code one}, listed by
+   * the region {@link OrderWindows#add} placed each in, in their order.
+   */
+  private static List<List<Double>> addedOneByOne(OrderWindows one, double[] x,
+      java.util.function.IntPredicate keep) {
+    List<List<Double>> out = new ArrayList<>();
+    for (int r = 0; r < one.regions(); r++) {
+      out.add(new ArrayList<>());
+    }
+    for (int i = 0; i < x.length; i++) {
+      if (keep.test(i)) {
+        out.get(one.add(x[i])).add(x[i]);
+      }
+    }
+    return out;
   }
 
   /**
